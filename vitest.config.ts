@@ -1,9 +1,29 @@
 import { defineConfig } from 'vitest/config';
 
-// Unit suites only: pure engine and case code, no DOM. The browser suite runs through Playwright.
+// Two suites: `unit` (pure engine and case code, no DOM) and `browser` (Playwright driving real
+// Chromium with the built extension; needs `npm run build` first). Both report through vitest so
+// CI can sum them into one line.
 export default defineConfig({
   test: {
-    include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts'],
-    environment: 'node',
+    projects: [
+      {
+        test: {
+          name: 'unit',
+          include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts'],
+          environment: 'node',
+        },
+      },
+      {
+        test: {
+          name: 'browser',
+          include: ['test/e2e/**/*.test.ts'],
+          environment: 'node',
+          // one Chromium at a time: the machine has two cores
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 90_000,
+        },
+      },
+    ],
   },
 });

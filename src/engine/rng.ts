@@ -2,13 +2,11 @@ import { integer } from './validate';
 
 /**
  * Seeded pseudo-random generator (xoshiro128**, Blackman & Vigna 2018) seeded through splitmix32.
- * Deterministic across platforms because it uses only 32-bit integer arithmetic. State lives in a
- * Uint32Array so a draw allocates nothing; normals use the polar method with a cached spare.
+ * Deterministic across platforms because it uses only 32-bit integer arithmetic (and, for normals,
+ * tables computed once at load). State lives in a Uint32Array so a draw allocates nothing.
  */
 export class Rng {
   private readonly s = new Uint32Array(4);
-  private spare = 0;
-  private hasSpare = false;
 
   constructor(seed: number) {
     integer('seed', seed, 0, 0xffffffff);
@@ -48,24 +46,31 @@ export class Rng {
     return lo + (hi - lo) * this.uniform();
   }
 
-  /** Standard normal. */
+  /**
+   * Standard normal by the ziggurat method (Marsaglia & Tsang, J. Stat. Softw. 5(8), 2000), 128
+   * layers. The layer index and the value come from separate 32-bit draws, which avoids the
+   * index/value correlation Doornik (2005) found in the original. About 99 % of draws take the fast
+   * path: one table look-up and one multiply, which matters at 8 normals per Monte Carlo draw.
+   */
   normal(): number {
-    if (this.hasSpare) {
-      this.hasSpare = false;
-      return this.spare;
+    for (;;) {
+      const iz = this.nextU32() & 127;
+      const hz = this.nextU32() | 0;
+      const x = hz * ZIG_W[iz]!;
+      if (Math.abs(hz) < ZIG_K[iz]!) return x;
+      if (iz === 0) {
+        // the tail beyond r, by Marsaglia's (1964) method
+        let a = 0;
+        let b = 0;
+        do {
+          a = -Math.log(1 - this.uniform()) / ZIG_R;
+          b = -Math.log(1 - this.uniform());
+        } while (b + b < a * a);
+        return hz > 0 ? ZIG_R + a : -ZIG_R - a;
+      }
+      // the wedge between this layer and the one above: accept under the density
+      if (ZIG_F[iz]! + this.uniform() * (ZIG_F[iz - 1]! - ZIG_F[iz]!) < Math.exp(-0.5 * x * x)) return x;
     }
-    let u = 0;
-    let v = 0;
-    let q = 0;
-    do {
-      u = 2 * this.uniform() - 1;
-      v = 2 * this.uniform() - 1;
-      q = u * u + v * v;
-    } while (q >= 1 || q === 0);
-    const m = Math.sqrt((-2 * Math.log(q)) / q);
-    this.spare = v * m;
-    this.hasSpare = true;
-    return u * m;
   }
 
   /** Normal with mean and standard deviation. */
@@ -77,3 +82,29 @@ export class Rng {
 function rotl(x: number, k: number): number {
   return ((x << k) | (x >>> (32 - k))) >>> 0;
 }
+
+/* Ziggurat tables for the standard normal, 128 layers (Marsaglia & Tsang 2000, their zigset). */
+const ZIG_R = 3.442619855899;
+const ZIG_K = new Float64Array(128);
+const ZIG_W = new Float64Array(128);
+const ZIG_F = new Float64Array(128);
+(() => {
+  const m1 = 2147483648;
+  const vn = 9.91256303526217e-3;
+  let dn = ZIG_R;
+  let tn = dn;
+  const q = vn / Math.exp(-0.5 * dn * dn);
+  ZIG_K[0] = (dn / q) * m1;
+  ZIG_K[1] = 0;
+  ZIG_W[0] = q / m1;
+  ZIG_W[127] = dn / m1;
+  ZIG_F[0] = 1;
+  ZIG_F[127] = Math.exp(-0.5 * dn * dn);
+  for (let i = 126; i >= 1; i--) {
+    dn = Math.sqrt(-2 * Math.log(vn / dn + Math.exp(-0.5 * dn * dn)));
+    ZIG_K[i + 1] = (dn / tn) * m1;
+    tn = dn;
+    ZIG_F[i] = Math.exp(-0.5 * dn * dn);
+    ZIG_W[i] = dn / m1;
+  }
+})();

@@ -10,19 +10,22 @@ export interface Estimate {
 /**
  * The median and 5 % / 95 % quantiles of the first n values, by selection rather than a full sort
  * (O(n), which matters at 20 000 draws). Reorders `values` in place; non-finite draws are dropped
- * first so that one degenerate draw cannot poison a result.
+ * first so that one degenerate draw cannot poison a result. After the median is selected, each tail
+ * quantile is searched only on its own side of it, which roughly halves the work.
  */
 export function summarize(values: Float64Array, n = values.length): Estimate {
   let m = 0;
   for (let i = 0; i < n; i++) {
     const v = values[i]!;
-    if (Number.isFinite(v)) values[m++] = v;
+    if (v - v === 0) values[m++] = v; // finite: Infinity - Infinity and NaN - NaN are NaN
   }
   if (m === 0) throw new UndeterminedError('estimate', 'no draw gave a finite value');
+  const median = quantileIn(values, 0, m, m, 0.5);
+  const mid = Math.floor((m - 1) * 0.5);
   return {
-    p05: quantileInPlace(values, m, 0.05),
-    median: quantileInPlace(values, m, 0.5),
-    p95: quantileInPlace(values, m, 0.95),
+    p05: quantileIn(values, 0, mid + 1, m, 0.05),
+    median,
+    p95: quantileIn(values, mid, m, m, 0.95),
   };
 }
 
@@ -38,20 +41,27 @@ export function finiteShare(values: Float64Array, n = values.length): number {
  * as in R's default and numpy's 'linear'), computed by quickselect on a[0..n).
  */
 export function quantileInPlace(a: Float64Array, n: number, q: number): number {
+  return quantileIn(a, 0, n, n, q);
+}
+
+/**
+ * Type-7 quantile q of all n values, searching only a[from..to), which the caller guarantees holds
+ * the order statistics needed (everything before `from` is no larger, everything from `to` on no
+ * smaller, as a previous selection leaves it).
+ */
+function quantileIn(a: Float64Array, from: number, to: number, n: number, q: number): number {
   const h = (n - 1) * q;
   const lo = Math.floor(h);
-  const vLo = select(a, n, lo);
+  const vLo = select(a, from, to - 1, lo);
   if (lo + 1 >= n || h === lo) return vLo;
-  // after select(lo), the smallest value of a[lo+1..n) is the next order statistic
-  let vHi = Infinity;
-  for (let i = lo + 1; i < n; i++) if (a[i]! < vHi) vHi = a[i]!;
+  // after select(lo), the smallest value of a[lo+1..to) is the next order statistic (or a[to] if empty)
+  let vHi = to < n ? a[to]! : Infinity;
+  for (let i = lo + 1; i < to; i++) if (a[i]! < vHi) vHi = a[i]!;
   return vLo + (h - lo) * (vHi - vLo);
 }
 
-/** Hoare-style quickselect: places the k-th smallest at a[k], smaller before, larger after. */
-function select(a: Float64Array, n: number, k: number): number {
-  let left = 0;
-  let right = n - 1;
+/** Hoare-style quickselect on a[left..right]: places the k-th smallest at a[k], smaller before, larger after. */
+function select(a: Float64Array, left: number, right: number, k: number): number {
   while (right > left) {
     const mid = (left + right) >>> 1;
     // median of three as pivot keeps sorted input from going quadratic

@@ -26,6 +26,17 @@ describe('quantiles by selection', () => {
     );
   });
 
+  it('summarize agrees with the reference on all three quantiles (property)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 1, maxLength: 400 }), (xs) => {
+        const e = summarize(Float64Array.from(xs));
+        expect(e.p05).toBeCloseTo(referenceQuantile(xs, 0.05), 6);
+        expect(e.median).toBeCloseTo(referenceQuantile(xs, 0.5), 6);
+        expect(e.p95).toBeCloseTo(referenceQuantile(xs, 0.95), 6);
+      }),
+    );
+  });
+
   it('handles many ties and sorted input', () => {
     const a = Float64Array.from({ length: 1001 }, (_, i) => Math.floor(i / 100));
     expect(quantileInPlace(a.slice(), a.length, 0.5)).toBe(5);

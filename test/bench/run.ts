@@ -1,0 +1,18 @@
+import { engineBench, type BenchRow } from './engine';
+
+// `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
+const TARGET_FRAME_SHARE = 0.25;
+
+function print(rows: BenchRow[]): void {
+  for (const r of rows) {
+    const ok = r.frameShare < TARGET_FRAME_SHARE ? 'within' : 'OVER';
+    console.log(
+      `${r.name}: median ${r.medianMs.toFixed(2)} ms = ${r.frameShare.toFixed(3)} of a 16.7 ms frame ` +
+        `(target < ${TARGET_FRAME_SHARE}: ${ok}); heap growth ${Math.round(r.heapBytesPerSolve)} B per solve, ` +
+        `${r.heapBytesPerDraw.toFixed(2)} B per draw`,
+    );
+  }
+}
+
+console.log(`engine benchmark on ${process.version}, ${(await import('node:os')).cpus().length} cores`);
+print(engineBench());

@@ -192,7 +192,24 @@ export function angleBetweenPoints(
   if (span === 0 || span > diagonal) {
     throw new InputError('span between the marked points', span, `more than 0 and at most ${diagonal} px (the frame diagonal)`);
   }
-  const k = (2 * Math.tan(hfovRad / 2)) / widthPx;
+  return rayAngleUnchecked(x1, y1, x2, y2, widthPx, heightPx, Math.tan(hfovRad / 2));
+}
+
+/**
+ * The arithmetic of angleBetweenPoints without its checks, taking tan(HFOV/2) directly: for Monte
+ * Carlo loops that have validated the marks and field of view once and then perturb them by a few
+ * pixels per draw. Coincident points give 0; callers must treat that as no span.
+ */
+export function rayAngleUnchecked(
+  x1: number,
+  y1: number,
+  x2: number,
+  y2: number,
+  widthPx: number,
+  heightPx: number,
+  tanHalfHfov: number,
+): number {
+  const k = (2 * tanHalfHfov) / widthPx;
   const ax = (x1 - widthPx / 2) * k;
   const ay = (y1 - heightPx / 2) * k;
   const bx = (x2 - widthPx / 2) * k;
@@ -201,10 +218,8 @@ export function angleBetweenPoints(
   // span does not come out as the difference of two nearly equal rounded numbers
   const dx = (x2 - x1) * k;
   const dy = (y2 - y1) * k;
-  const cx = -dy;
-  const cy = dx;
   const cz = ax * dy - ay * dx;
-  const cross = Math.sqrt(cx * cx + cy * cy + cz * cz);
+  const cross = Math.sqrt(dx * dx + dy * dy + cz * cz);
   const dot = ax * bx + ay * by + 1;
   return Math.atan2(cross, dot);
 }

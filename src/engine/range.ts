@@ -25,7 +25,7 @@ export function rangeFromAngularSize(trueSizeM: number, thetaRad: number, aspect
   size(trueSizeM);
   openAngle('angular size', thetaRad);
   aspect(aspectRad);
-  const r = (trueSizeM * Math.sin(aspectRad)) / (2 * Math.tan(thetaRad / 2));
+  const r = rangeUnchecked(trueSizeM, thetaRad, aspectRad);
   if (!(r > 0 && r <= MAX_RANGE_M)) {
     throw new InputError(
       'range',
@@ -34,6 +34,11 @@ export function rangeFromAngularSize(trueSizeM: number, thetaRad: number, aspect
     );
   }
   return r;
+}
+
+/** rangeFromAngularSize's arithmetic without checks, for Monte Carlo loops that validated once. */
+export function rangeUnchecked(trueSizeM: number, thetaRad: number, aspectRad: number): number {
+  return (trueSizeM * Math.sin(aspectRad)) / (2 * Math.tan(thetaRad / 2));
 }
 
 /** Angle (rad, 0 to 180 deg) an object of true size L subtends at range R and aspect angle a. */

@@ -1,9 +1,9 @@
-import { angleBetweenPoints } from './camera';
-import { MAX_FRAME_PX, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
+import { rayAngleUnchecked } from './camera';
+import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
 import { InputError } from './errors';
 import { FIT_OUT, FIT_OUT_LENGTH, FitStatus, fitRangeOverTimeKernel } from './fit';
 import { parallelFixedPointFraction } from './fixedpoint';
-import { rangeFromAngularSize } from './range';
+import { rangeUnchecked } from './range';
 import { Rng } from './rng';
 import { finiteShare, summarize, type Estimate } from './stats';
 import { impliedSpeedFromLandmark } from './speed';
@@ -12,7 +12,9 @@ import { band, finite, inRange, integer, positive } from './validate';
 /*
  * Monte Carlo propagation of every input range to every result. Each draw picks one value for
  * every uncertain input (size, aspect, field of view, observer speed: uniform over their bands;
- * each marked end: normal with its edge uncertainty) and runs the plain-number kernels. Draw
+ * each marked end: moved along its span by a normal error with the mark's edge uncertainty) and runs
+ * the plain-number kernels. The edge uncertainty is where an edge lies along the span line (that is
+ * how edges are snapped); a shift across the span changes the angle only to second order. Draw
  * columns are preallocated typed arrays, so a draw allocates nothing. Results are the median and
  * the 5-95 % interval; a draw in which a kernel rejects its inputs (e.g. a span that noise shrank
  * to nothing) is dropped, and the share of kept draws is reported.
@@ -30,7 +32,7 @@ export interface SpanMark {
   y1: number;
   x2: number;
   y2: number;
-  /** Standard deviation of each end's position, pixels. */
+  /** Standard deviation of each end's position along the span, pixels. */
   edgeSigmaPx: number;
 }
 
@@ -120,14 +122,16 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
   const { object: obj, landmark: lm, observerSpeed: us, objectSpeed: ws, hfov } = scene;
   const wantsFixedPoint = !!us && (!!lm || !!ws);
   const shares = { between: 0, beyond: 0, behind: 0, none: 0 };
+  const objDir = directionOf(obj.span);
+  const lmDir = lm ? directionOf(lm.span) : objDir;
 
   for (let i = 0; i < draws; i++) {
-    const fov = draw(rng, hfov);
-    const th = drawAngle(rng, obj.span, W, H, fov);
+    const tanHalf = Math.tan(draw(rng, hfov) / 2);
+    const th = drawAngle(rng, obj.span, objDir, W, H, tanHalf);
     theta[i] = th;
     const R = rangeOrNaN(draw(rng, obj.size), th, draw(rng, obj.aspect));
     range[i] = R;
-    const d = lm ? rangeOrNaN(draw(rng, lm.size), drawAngle(rng, lm.span, W, H, fov), draw(rng, lm.aspect)) : NaN;
+    const d = lm ? rangeOrNaN(draw(rng, lm.size), drawAngle(rng, lm.span, lmDir, W, H, tanHalf), draw(rng, lm.aspect)) : NaN;
     dRange[i] = d;
     if (!wantsFixedPoint) continue;
     const u = draw(rng, us!);
@@ -138,11 +142,11 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
       speed[i] = Number.isFinite(s) && u > 0 ? impliedSpeedFromLandmark(u, R, d) : NaN;
     } else {
       const w = draw(rng, ws!);
-      s = u === w ? Infinity : parallelFixedPointFraction(u, w);
+      s = parallelFixedPointFraction(u, w);
       speed[i] = w;
     }
     frac[i] = Number.isFinite(s) ? s : NaN;
-    fdist[i] = Number.isFinite(s) && Number.isFinite(R) ? s * R : NaN;
+    if (!lm) fdist[i] = Number.isFinite(s) && Number.isFinite(R) ? s * R : NaN;
     if (!Number.isFinite(R)) continue;
     if (!Number.isFinite(s)) shares.none++;
     else if (s < 0) shares.behind++;
@@ -163,7 +167,8 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
     const total = shares.between + shares.beyond + shares.behind + shares.none;
     if (finiteShare(frac, draws) > 0) {
       result.fixedPointFraction = summarize(frac, draws);
-      result.fixedPointDistance = summarize(fdist, draws);
+      // with a landmark, the fixed point is the landmark: its distance is the landmark's range
+      result.fixedPointDistance = lm ? result.landmarkRange! : summarize(fdist, draws);
     }
     if (lm && finiteShare(speed, draws) > 0) result.impliedSpeed = summarize(speed, draws);
     if (total > 0) {
@@ -240,6 +245,7 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
   const sig = new Float64Array(n);
   const out = new Float64Array(FIT_OUT_LENGTH);
   const spanPx = Float64Array.from(marks, (m) => Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1));
+  const dirs = marks.map((m) => directionOf(m.span));
   const perMark: Float64Array[] = marks.map((_, k) => seriesColumns.get(10 + k, draws));
   const dp = seriesColumns.get(0, draws);
   const vr = seriesColumns.get(1, draws);
@@ -252,13 +258,13 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
   let failed = 0;
 
   for (let i = 0; i < draws; i++) {
-    const fov = draw(rng, scene.hfov);
+    const tanHalf = Math.tan(draw(rng, scene.hfov) / 2);
     const L = draw(rng, scene.object.size);
     const a = draw(rng, scene.object.aspect);
     let bad = false;
     for (let k = 0; k < n; k++) {
       const span = marks[k]!.span;
-      const R = rangeOrNaN(L, drawAngle(rng, span, W, H, fov), a);
+      const R = rangeOrNaN(L, drawAngle(rng, span, dirs[k]!, W, H, tanHalf), a);
       perMark[k]![i] = R;
       r[k] = R;
       // relative range error from the two ends' noise: sqrt(2) sigma / span (small-angle)
@@ -315,26 +321,30 @@ function draw(rng: Rng, b: Band): number {
   return b.lo === b.hi ? b.lo : rng.between(b.lo, b.hi);
 }
 
-function drawAngle(rng: Rng, s: SpanMark, W: number, H: number, fov: number): number {
-  const e = s.edgeSigmaPx;
-  const x1 = s.x1 + e * rng.normal();
-  const y1 = s.y1 + e * rng.normal();
-  const x2 = s.x2 + e * rng.normal();
-  const y2 = s.y2 + e * rng.normal();
-  try {
-    return angleBetweenPoints(x1, y1, x2, y2, W, H, fov);
-  } catch {
-    return NaN;
-  }
+/*
+ * The loop's kernels: the inputs were validated once up front, so each draw runs the unchecked
+ * arithmetic (camera.ts, range.ts) and turns a degenerate draw into NaN, which summarize drops.
+ */
+function drawAngle(rng: Rng, s: SpanMark, dir: SpanDirection, W: number, H: number, tanHalf: number): number {
+  const e1 = s.edgeSigmaPx * rng.normal();
+  const e2 = s.edgeSigmaPx * rng.normal();
+  const th = rayAngleUnchecked(s.x1 - dir.x * e1, s.y1 - dir.y * e1, s.x2 + dir.x * e2, s.y2 + dir.y * e2, W, H, tanHalf);
+  return th > 0 ? th : NaN;
+}
+
+/** Unit vector from a span's first end to its second (computed once, outside the loop). */
+interface SpanDirection {
+  x: number;
+  y: number;
+}
+function directionOf(s: SpanMark): SpanDirection {
+  const len = Math.hypot(s.x2 - s.x1, s.y2 - s.y1);
+  return { x: (s.x2 - s.x1) / len, y: (s.y2 - s.y1) / len };
 }
 
 function rangeOrNaN(size: number, theta: number, aspect: number): number {
-  if (!Number.isFinite(theta)) return NaN;
-  try {
-    return rangeFromAngularSize(size, theta, aspect);
-  } catch {
-    return NaN;
-  }
+  const r = rangeUnchecked(size, theta, aspect);
+  return r > 0 && r <= MAX_RANGE_M ? r : NaN;
 }
 
 function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: number; seed: number } {

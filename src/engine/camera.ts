@@ -225,6 +225,33 @@ export function rayAngleUnchecked(
 }
 
 /**
+ * A span's constants for moving its ends along its own line, the way an edge uncertainty acts:
+ * [length, C0 = X1 Dy - Y1 Dx, Q0 = X1 X2 + Y1 Y2] with X, Y measured from the frame centre and D
+ * the span vector. See spanHalfAngleTanUnchecked.
+ */
+export function spanLineConstants(x1: number, y1: number, x2: number, y2: number, widthPx: number, heightPx: number): Float64Array {
+  const X1 = x1 - widthPx / 2;
+  const Y1 = y1 - heightPx / 2;
+  const X2 = x2 - widthPx / 2;
+  const Y2 = y2 - heightPx / 2;
+  return Float64Array.of(Math.hypot(X2 - X1, Y2 - Y1), X1 * (Y2 - Y1) - Y1 * (X2 - X1), X1 * X2 + Y1 * Y2);
+}
+
+/**
+ * tan(theta/2) for the span lengthened by e pixels, half at each end, along its own line, with
+ * k = 2 tan(HFOV/2) / W. Moving the ends along the line leaves the cross term's z part k^2 C0 and
+ * scales the in-plane part by g = 1 + e/len, and the dot product becomes k^2 (Q0 - e len/2 - e^2/4)
+ * + 1: two square roots a draw instead of the general kernel's full arithmetic. Equal to
+ * tan(theta/2) of angleBetweenPoints on the moved ends (tested).
+ */
+export function spanHalfAngleTanUnchecked(len: number, c0: number, q0: number, e: number, k: number): number {
+  const g = 1 + e / len;
+  const cross = k * g * Math.sqrt(len * len + k * k * c0 * c0);
+  const dot = k * k * (q0 - (e * len) / 2 - (e * e) / 4) + 1;
+  return cross / (Math.sqrt(cross * cross + dot * dot) + dot);
+}
+
+/**
  * The rule-of-thumb span/W x HFOV. Kept only to cross-check the exact kernels: it overstates angles
  * near the frame edge and understates them at the centre (at the centre the exact value is larger by
  * 2 tan(HFOV/2) / HFOV, at the edge smaller by sin(HFOV) / HFOV). Do not use it for results.

@@ -25,7 +25,7 @@ export function rangeFromAngularSize(trueSizeM: number, thetaRad: number, aspect
   size(trueSizeM);
   openAngle('angular size', thetaRad);
   aspect(aspectRad);
-  const r = rangeUnchecked(trueSizeM, thetaRad, aspectRad);
+  const r = rangeUnchecked(trueSizeM, Math.tan(thetaRad / 2), Math.sin(aspectRad));
   if (!(r > 0 && r <= MAX_RANGE_M)) {
     throw new InputError(
       'range',
@@ -36,9 +36,13 @@ export function rangeFromAngularSize(trueSizeM: number, thetaRad: number, aspect
   return r;
 }
 
-/** rangeFromAngularSize's arithmetic without checks, for Monte Carlo loops that validated once. */
-export function rangeUnchecked(trueSizeM: number, thetaRad: number, aspectRad: number): number {
-  return (trueSizeM * Math.sin(aspectRad)) / (2 * Math.tan(thetaRad / 2));
+/**
+ * rangeFromAngularSize's arithmetic without checks, for Monte Carlo loops that validated once. It
+ * takes tan(theta/2) and sin(aspect) so that a loop can get the first straight from the rays
+ * (camera.ts spanHalfAngleTanUnchecked) and compute the second once when the aspect is exact.
+ */
+export function rangeUnchecked(trueSizeM: number, tanHalfTheta: number, sinAspect: number): number {
+  return (trueSizeM * sinAspect) / (2 * tanHalfTheta);
 }
 
 /** Angle (rad, 0 to 180 deg) an object of true size L subtends at range R and aspect angle a. */

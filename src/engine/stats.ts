@@ -8,25 +8,108 @@ export interface Estimate {
 }
 
 /**
- * The median and 5 % / 95 % quantiles of the first n values, by selection rather than a full sort
- * (O(n), which matters at 20 000 draws). Reorders `values` in place; non-finite draws are dropped
- * first so that one degenerate draw cannot poison a result. After the median is selected, each tail
- * quantile is searched only on its own side of it, which roughly halves the work.
+ * The median and 5 % / 95 % quantiles of the first n values (type 7, see quantileInPlace), exact.
+ * Non-finite draws are dropped first, so that one degenerate draw cannot poison a result; `values`
+ * is reordered in place. For large inputs, a counting pass into bins finds which bins hold the
+ * wanted order statistics, and exact selection then runs only inside those few bins: far fewer
+ * unpredictable branches than quickselect over all 20 000 draws.
  */
 export function summarize(values: Float64Array, n = values.length): Estimate {
   let m = 0;
+  let min = Infinity;
+  let max = -Infinity;
   for (let i = 0; i < n; i++) {
     const v = values[i]!;
-    if (v - v === 0) values[m++] = v; // finite: Infinity - Infinity and NaN - NaN are NaN
+    if (v - v === 0) {
+      // finite: Infinity - Infinity and NaN - NaN are NaN
+      values[m++] = v;
+      if (v < min) min = v;
+      if (v > max) max = v;
+    }
   }
   if (m === 0) throw new UndeterminedError('estimate', 'no draw gave a finite value');
-  const median = quantileIn(values, 0, m, m, 0.5);
-  const mid = Math.floor((m - 1) * 0.5);
-  return {
-    p05: quantileIn(values, 0, mid + 1, m, 0.05),
-    median,
-    p95: quantileIn(values, mid, m, m, 0.95),
+  if (min === max) return { p05: min, median: min, p95: min };
+  // small inputs, and spreads too wide for a finite bin width, take plain selection
+  if (m < 512 || !Number.isFinite(max - min)) {
+    return {
+      p05: quantileInPlace(values, m, 0.05),
+      median: quantileInPlace(values, m, 0.5),
+      p95: quantileInPlace(values, m, 0.95),
+    };
+  }
+  return binnedQuantiles(values, m, min, max);
+}
+
+const BINS = 1024;
+const binCount = new Int32Array(BINS + 1);
+const binStart = new Int32Array(BINS + 2);
+const binBase = new Int32Array(BINS + 1);
+const binFill = new Int32Array(BINS + 1);
+const binWanted = new Int8Array(BINS + 1);
+const need = new Int32Array(6);
+let scratch = new Float64Array(0);
+const QS = [0.05, 0.5, 0.95] as const;
+
+function binnedQuantiles(a: Float64Array, m: number, min: number, max: number): Estimate {
+  const scale = BINS / (max - min);
+  binCount.fill(0);
+  // v = max lands exactly on BINS (the extra last bin), never past it
+  for (let i = 0; i < m; i++) binCount[((a[i]! - min) * scale) | 0]!++;
+  let acc = 0;
+  for (let b = 0; b <= BINS; b++) {
+    binStart[b] = acc;
+    acc += binCount[b]!;
+  }
+  binStart[BINS + 1] = acc;
+  // order statistics needed: floor(h) and floor(h) + 1 for each quantile
+  for (let j = 0; j < 3; j++) {
+    const lo = Math.floor((m - 1) * QS[j]!);
+    need[2 * j] = lo;
+    need[2 * j + 1] = Math.min(lo + 1, m - 1);
+  }
+  // mark the bins that hold them, then gather exactly those values (one pass)
+  const wanted = binWanted;
+  const base = binBase;
+  const fill = binFill;
+  wanted.fill(0);
+  fill.fill(0);
+  for (let j = 0; j < 6; j++) wanted[binOf(need[j]!)] = 1;
+  let off = 0;
+  for (let b = 0; b <= BINS; b++) {
+    if (wanted[b]) {
+      base[b] = off;
+      off += binCount[b]!;
+    }
+  }
+  if (scratch.length < off) scratch = new Float64Array(Math.max(off, 1024));
+  for (let i = 0; i < m; i++) {
+    const v = a[i]!;
+    const b = ((v - min) * scale) | 0;
+    if (wanted[b]) scratch[base[b]! + fill[b]!++] = v;
+  }
+  const orderStat = (k: number): number => {
+    const b = binOf(k);
+    return select(scratch, base[b]!, base[b]! + binCount[b]! - 1, base[b]! + (k - binStart[b]!));
   };
+  const quantile = (q: number, j: number): number => {
+    const h = (m - 1) * q;
+    const lo = need[2 * j]!;
+    const vLo = orderStat(lo);
+    return h === lo ? vLo : vLo + (h - lo) * (orderStat(need[2 * j + 1]!) - vLo);
+  };
+  return { p05: quantile(0.05, 0), median: quantile(0.5, 1), p95: quantile(0.95, 2) };
+}
+
+/** The bin holding order statistic k (binary search over the cumulative counts). */
+function binOf(k: number): number {
+  let lo = 0;
+  let hi = BINS;
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >>> 1;
+    if (binStart[mid]! <= k) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo;
 }
 
 /** Share of finite draws among the first n (how often a quantity existed at all). */

@@ -1,4 +1,4 @@
-import { rayAngleUnchecked } from './camera';
+import { spanHalfAngleTanUnchecked, spanLineConstants } from './camera';
 import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
 import { InputError } from './errors';
 import { FIT_OUT, FIT_OUT_LENGTH, FitStatus, fitRangeOverTimeKernel } from './fit';
@@ -14,7 +14,9 @@ import { band, finite, inRange, integer, positive } from './validate';
  * every uncertain input (size, aspect, field of view, observer speed: uniform over their bands;
  * each marked end: moved along its span by a normal error with the mark's edge uncertainty) and runs
  * the plain-number kernels. The edge uncertainty is where an edge lies along the span line (that is
- * how edges are snapped); a shift across the span changes the angle only to second order. Draw
+ * how edges are snapped); a shift across the span changes the angle only to second order.
+ * Columns are filled pass by pass (all draws of one input, then the next), so each pass is a small
+ * loop whose kernels inline and whose doubles stay unboxed. Draw
  * columns are preallocated typed arrays, so a draw allocates nothing. Results are the median and
  * the 5-95 % interval; a draw in which a kernel rejects its inputs (e.g. a span that noise shrank
  * to nothing) is dropped, and the share of kept draws is reported.
@@ -112,46 +114,48 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
     band('assumed object speed', scene.objectSpeed.lo, scene.objectSpeed.hi, -MAX_SPEED_MS, MAX_SPEED_MS, ' m/s');
   }
 
-  const theta = frameColumns.get(0, draws);
-  const range = frameColumns.get(1, draws);
-  const dRange = frameColumns.get(2, draws);
-  const speed = frameColumns.get(3, draws);
-  const frac = frameColumns.get(4, draws);
-  const fdist = frameColumns.get(5, draws);
-  const rng = new Rng(seed);
   const { object: obj, landmark: lm, observerSpeed: us, objectSpeed: ws, hfov } = scene;
   const wantsFixedPoint = !!us && (!!lm || !!ws);
-  const shares = { between: 0, beyond: 0, behind: 0, none: 0 };
-  const objDir = directionOf(obj.span);
-  const lmDir = lm ? directionOf(lm.span) : objDir;
+  const n = draws;
+  const col = (k: number) => frameColumns.get(k, n);
+  const [theta, range, dRange, speed, frac, fdist, tanHalf, work, size, sinA] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9].map(col) as Tuple<10>;
+  const rng = new Rng(seed);
 
-  for (let i = 0; i < draws; i++) {
-    const tanHalf = Math.tan(draw(rng, hfov) / 2);
-    const th = drawAngle(rng, obj.span, objDir, W, H, tanHalf);
-    theta[i] = th;
-    const R = rangeOrNaN(draw(rng, obj.size), th, draw(rng, obj.aspect));
-    range[i] = R;
-    const d = lm ? rangeOrNaN(draw(rng, lm.size), drawAngle(rng, lm.span, lmDir, W, H, tanHalf), draw(rng, lm.aspect)) : NaN;
-    dRange[i] = d;
-    if (!wantsFixedPoint) continue;
-    const u = draw(rng, us!);
-    let s: number;
+  // Column passes rather than one loop per draw: each pass is small enough for the kernels to be
+  // inlined into it, which keeps doubles unboxed (no garbage per draw) and the loops tight.
+  fillTanHalf(rng, hfov, tanHalf, n);
+  fillHalfTans(rng, obj.span, W, H, tanHalf, theta, n);
+  fillUniform(rng, obj.size, size, n);
+  fillSinAspect(rng, obj.aspect, sinA, n);
+  fillRanges(size, sinA, theta, range, n);
+  for (let i = 0; i < n; i++) theta[i] = 2 * Math.atan(theta[i]!); // the angular size itself, for display
+  if (lm) {
+    fillHalfTans(rng, lm.span, W, H, tanHalf, work, n);
+    fillUniform(rng, lm.size, size, n);
+    fillSinAspect(rng, lm.aspect, sinA, n);
+    fillRanges(size, sinA, work, dRange, n);
+  }
+  let shares: RegimeShares | null = null;
+  if (wantsFixedPoint) {
+    fillUniform(rng, us!, work, n); // observer speed
     if (lm) {
-      // the landmark is the fixed point: s = d / R (intercept theorem)
-      s = d / R;
-      speed[i] = Number.isFinite(s) && u > 0 ? impliedSpeedFromLandmark(u, R, d) : NaN;
+      // the landmark is the fixed point: s = d / R (intercept theorem), w = u (1 - R / d)
+      for (let i = 0; i < n; i++) {
+        const R = range[i]!;
+        const d = dRange[i]!;
+        const ok = R > 0 && d > 0; // false for NaN too
+        frac[i] = ok ? d / R : NaN;
+        speed[i] = ok && work[i]! > 0 ? impliedSpeedFromLandmark(work[i]!, R, d) : NaN;
+      }
     } else {
-      const w = draw(rng, ws!);
-      s = parallelFixedPointFraction(u, w);
-      speed[i] = w;
+      fillUniform(rng, ws!, speed, n); // assumed object speed
+      for (let i = 0; i < n; i++) {
+        const f = parallelFixedPointFraction(work[i]!, speed[i]!);
+        frac[i] = f === Infinity ? NaN : f;
+        fdist[i] = f === Infinity ? NaN : f * range[i]!;
+      }
     }
-    frac[i] = Number.isFinite(s) ? s : NaN;
-    if (!lm) fdist[i] = Number.isFinite(s) && Number.isFinite(R) ? s * R : NaN;
-    if (!Number.isFinite(R)) continue;
-    if (!Number.isFinite(s)) shares.none++;
-    else if (s < 0) shares.behind++;
-    else if (s > 1) shares.beyond++;
-    else shares.between++;
+    shares = regimeShares(frac, range, n);
   }
 
   const keptShare = finiteShare(range, draws);
@@ -164,21 +168,13 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
   };
   if (lm) result.landmarkRange = summarize(dRange, draws);
   if (wantsFixedPoint) {
-    const total = shares.between + shares.beyond + shares.behind + shares.none;
-    if (finiteShare(frac, draws) > 0) {
-      result.fixedPointFraction = summarize(frac, draws);
+    if (finiteShare(frac, n) > 0) {
+      result.fixedPointFraction = summarize(frac, n);
       // with a landmark, the fixed point is the landmark: its distance is the landmark's range
-      result.fixedPointDistance = lm ? result.landmarkRange! : summarize(fdist, draws);
+      result.fixedPointDistance = lm ? result.landmarkRange! : summarize(fdist, n);
     }
-    if (lm && finiteShare(speed, draws) > 0) result.impliedSpeed = summarize(speed, draws);
-    if (total > 0) {
-      result.regimeShares = {
-        between: shares.between / total,
-        beyond: shares.beyond / total,
-        behind: shares.behind / total,
-        none: shares.none / total,
-      };
-    }
+    if (lm && finiteShare(speed, n) > 0) result.impliedSpeed = summarize(speed, n);
+    if (shares) result.regimeShares = shares;
   }
   return result;
 }
@@ -196,8 +192,6 @@ export interface SeriesScene {
 }
 
 export interface SeriesResult {
-  /** Range at each mark, in the order given. */
-  ranges: Estimate[];
   closestApproach: Estimate;
   relativeSpeed: Estimate;
   tClosest: Estimate;
@@ -244,32 +238,34 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
   const r = new Float64Array(n);
   const sig = new Float64Array(n);
   const out = new Float64Array(FIT_OUT_LENGTH);
-  const spanPx = Float64Array.from(marks, (m) => Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1));
-  const dirs = marks.map((m) => directionOf(m.span));
-  const perMark: Float64Array[] = marks.map((_, k) => seriesColumns.get(10 + k, draws));
-  const dp = seriesColumns.get(0, draws);
-  const vr = seriesColumns.get(1, draws);
-  const t0 = seriesColumns.get(2, draws);
-  const wOpp = seriesColumns.get(3, draws);
-  const wSlow = seriesColumns.get(4, draws);
-  const wFast = seriesColumns.get(5, draws);
+  // relative range error from the two ends' noise, sqrt(2) sigma / span (small-angle), for the fit's weights
+  const relSigma = Float64Array.from(marks, (m) =>
+    Math.max((Math.SQRT2 * m.span.edgeSigmaPx) / Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1), 1e-6),
+  );
+  const col = (k: number) => seriesColumns.get(k, draws);
+  const [dp, vr, t0, wOpp, wSlow, wFast, tanHalf, size, sinA, u, theta] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10].map(col) as Tuple<11>;
+  const perMark = marks.map((_, k) => col(11 + k));
   const rng = new Rng(seed);
   const us = scene.observerSpeed;
-  let failed = 0;
 
+  // shared by every mark of a draw: one camera, one object
+  fillTanHalf(rng, scene.hfov, tanHalf, draws);
+  fillUniform(rng, scene.object.size, size, draws);
+  fillSinAspect(rng, scene.object.aspect, sinA, draws);
+  for (let k = 0; k < n; k++) {
+    fillHalfTans(rng, marks[k]!.span, W, H, tanHalf, theta, draws);
+    fillRanges(size, sinA, theta, perMark[k]!, draws);
+  }
+  if (us) fillUniform(rng, us, u, draws);
+
+  let failed = 0;
   for (let i = 0; i < draws; i++) {
-    const tanHalf = Math.tan(draw(rng, scene.hfov) / 2);
-    const L = draw(rng, scene.object.size);
-    const a = draw(rng, scene.object.aspect);
     let bad = false;
     for (let k = 0; k < n; k++) {
-      const span = marks[k]!.span;
-      const R = rangeOrNaN(L, drawAngle(rng, span, dirs[k]!, W, H, tanHalf), a);
-      perMark[k]![i] = R;
+      const R = perMark[k]![i]!;
       r[k] = R;
-      // relative range error from the two ends' noise: sqrt(2) sigma / span (small-angle)
-      sig[k] = R * Math.max((Math.SQRT2 * span.edgeSigmaPx) / spanPx[k]!, 1e-6);
-      if (!Number.isFinite(R)) bad = true;
+      sig[k] = R * relSigma[k]!;
+      if (!(R > 0)) bad = true;
     }
     const status = bad ? -1 : fitRangeOverTimeKernel(t, r, sig, n, out);
     if (status !== FitStatus.OK) {
@@ -278,22 +274,20 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
       continue;
     }
     const V = out[FIT_OUT.relativeSpeed]!;
+    const ui = u[i]!;
     dp[i] = out[FIT_OUT.closestApproach]!;
     vr[i] = V;
     t0[i] = out[FIT_OUT.tClosest]!;
-    if (us) {
-      const u = draw(rng, us);
-      wOpp[i] = V >= u ? V - u : NaN;
-      wSlow[i] = V <= u ? u - V : NaN;
-      wFast[i] = u + V;
-    }
+    // the three readings of the direction of travel (fit.ts objectSpeedFromRelative, per draw)
+    wOpp[i] = V >= ui ? V - ui : NaN;
+    wSlow[i] = V <= ui ? ui - V : NaN;
+    wFast[i] = ui + V;
   }
 
   if (failed === draws) {
     throw new InputError('timestamps', `${n} marks`, 'ranges that follow one straight pass (no draw could be fitted)');
   }
   const result: SeriesResult = {
-    ranges: perMark.map((c) => summarize(c, draws)),
     closestApproach: summarize(dp, draws),
     relativeSpeed: summarize(vr, draws),
     tClosest: summarize(t0, draws),
@@ -317,34 +311,70 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
 
 /* ---------------------------------------------------------------------------------------------- */
 
-function draw(rng: Rng, b: Band): number {
-  return b.lo === b.hi ? b.lo : rng.between(b.lo, b.hi);
-}
-
 /*
- * The loop's kernels: the inputs were validated once up front, so each draw runs the unchecked
- * arithmetic (camera.ts, range.ts) and turns a degenerate draw into NaN, which summarize drops.
+ * The passes. Inputs were validated once up front, so each draw runs the unchecked arithmetic
+ * (camera.ts, range.ts) and turns a degenerate draw into NaN, which summarize drops.
  */
-function drawAngle(rng: Rng, s: SpanMark, dir: SpanDirection, W: number, H: number, tanHalf: number): number {
-  const e1 = s.edgeSigmaPx * rng.normal();
-  const e2 = s.edgeSigmaPx * rng.normal();
-  const th = rayAngleUnchecked(s.x1 - dir.x * e1, s.y1 - dir.y * e1, s.x2 + dir.x * e2, s.y2 + dir.y * e2, W, H, tanHalf);
-  return th > 0 ? th : NaN;
+
+function fillUniform(rng: Rng, b: Band, out: Float64Array, n: number): void {
+  if (b.lo === b.hi) out.fill(b.lo, 0, n);
+  else for (let i = 0; i < n; i++) out[i] = rng.between(b.lo, b.hi);
 }
 
-/** Unit vector from a span's first end to its second (computed once, outside the loop). */
-interface SpanDirection {
-  x: number;
-  y: number;
-}
-function directionOf(s: SpanMark): SpanDirection {
-  const len = Math.hypot(s.x2 - s.x1, s.y2 - s.y1);
-  return { x: (s.x2 - s.x1) / len, y: (s.y2 - s.y1) / len };
+function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number): void {
+  fillUniform(rng, hfov, out, n);
+  for (let i = 0; i < n; i++) out[i] = Math.tan(out[i]! / 2);
 }
 
-function rangeOrNaN(size: number, theta: number, aspect: number): number {
-  const r = rangeUnchecked(size, theta, aspect);
-  return r > 0 && r <= MAX_RANGE_M ? r : NaN;
+/**
+ * tan(theta/2) of the angle subtended by a span whose ends each have an independent N(0, sigma) error
+ * along the span. Only their difference changes the length, so one normal with sd sqrt(2) sigma is
+ * split between the two ends; the dropped common shift of the whole span moves its angle only through
+ * the off-centre factor, parts in ten thousand per pixel. Columns hold the half-angle tangent, not
+ * the angle: range needs only that.
+ */
+function fillHalfTans(rng: Rng, s: SpanMark, W: number, H: number, tanHalf: Float64Array, out: Float64Array, n: number): void {
+  const [len, c0, q0] = spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H) as unknown as [number, number, number];
+  const sd = Math.SQRT2 * s.edgeSigmaPx;
+  // normals first, geometry second: two simple loops pipeline better than one mixed loop
+  for (let i = 0; i < n; i++) out[i] = rng.normal();
+  for (let i = 0; i < n; i++) {
+    const h = spanHalfAngleTanUnchecked(len, c0, q0, sd * out[i]!, (2 * tanHalf[i]!) / W);
+    out[i] = h > 0 ? h : NaN;
+  }
+}
+
+function fillSinAspect(rng: Rng, aspect: Band, out: Float64Array, n: number): void {
+  if (aspect.lo === aspect.hi) out.fill(Math.sin(aspect.lo), 0, n);
+  else for (let i = 0; i < n; i++) out[i] = Math.sin(rng.between(aspect.lo, aspect.hi));
+}
+
+/** Range per draw from tan(theta/2), size and sin(aspect); NaN where the angle is NaN or the range out of bounds. */
+function fillRanges(size: Float64Array, sinA: Float64Array, halfTan: Float64Array, out: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) {
+    const r = rangeUnchecked(size[i]!, halfTan[i]!, sinA[i]!);
+    out[i] = r > 0 && r <= MAX_RANGE_M ? r : NaN;
+  }
+}
+
+type Tuple<N extends number, T extends unknown[] = []> = T['length'] extends N ? T : Tuple<N, [...T, Float64Array]>;
+
+/** Regime of each draw's fixed point; a draw without a finite range is left out, one without a finite point is 'none'. */
+function regimeShares(frac: Float64Array, range: Float64Array, n: number): RegimeShares | null {
+  let between = 0;
+  let beyond = 0;
+  let behind = 0;
+  let none = 0;
+  for (let i = 0; i < n; i++) {
+    if (!(range[i]! > 0)) continue;
+    const f = frac[i]!;
+    if (f !== f) none++;
+    else if (f < 0) behind++;
+    else if (f > 1) beyond++;
+    else between++;
+  }
+  const total = between + beyond + behind + none;
+  return total === 0 ? null : { between: between / total, beyond: beyond / total, behind: behind / total, none: none / total };
 }
 
 function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: number; seed: number } {

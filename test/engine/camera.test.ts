@@ -479,3 +479,33 @@ describe('vfovFromHfov and hfovFromVfov', () => {
     expect(() => hfovFromVfov(Math.PI - 1e-15, 10)).toThrow(UndeterminedError);
   });
 });
+
+describe('span moved along its own line (the Monte Carlo kernel)', () => {
+  it('spanHalfAngleTanUnchecked equals tan(theta/2) of angleBetweenPoints on the moved ends (property)', async () => {
+    const { spanHalfAngleTanUnchecked, spanLineConstants, angleBetweenPoints: angle } = await import('../../src/engine/camera');
+    const W = 1920;
+    const H = 1080;
+    fc.assert(
+      fc.property(
+        // ends 10 px inside the frame, so a 3 px lengthening stays within the frame diagonal
+        fc.double({ min: 10, max: W - 10, noNaN: true }),
+        fc.double({ min: 10, max: H - 10, noNaN: true }),
+        fc.double({ min: 10, max: W - 10, noNaN: true }),
+        fc.double({ min: 10, max: H - 10, noNaN: true }),
+        fc.double({ min: -3, max: 3, noNaN: true }),
+        fc.double({ min: 5, max: 120, noNaN: true }),
+        (x1, y1, x2, y2, e, hfovDeg) => {
+          const len = Math.hypot(x2 - x1, y2 - y1);
+          fc.pre(len > 10);
+          const hx = (x2 - x1) / len / 2;
+          const hy = (y2 - y1) / len / 2;
+          const hfov = (hfovDeg * Math.PI) / 180;
+          const want = Math.tan(angle(x1 - hx * e, y1 - hy * e, x2 + hx * e, y2 + hy * e, W, H, hfov) / 2);
+          const [l, c0, q0] = spanLineConstants(x1, y1, x2, y2, W, H);
+          const got = spanHalfAngleTanUnchecked(l!, c0!, q0!, e, (2 * Math.tan(hfov / 2)) / W);
+          expect(Math.abs(got - want)).toBeLessThanOrEqual(1e-9 * want);
+        },
+      ),
+    );
+  });
+});

@@ -37,6 +37,28 @@ describe('quantiles by selection', () => {
     );
   });
 
+  it('summarize is exact on large inputs too (the binned path): spread, skewed, tied, with outliers', () => {
+    const big = (arb: fc.Arbitrary<number>) => fc.array(arb, { minLength: 512, maxLength: 5000 });
+    fc.assert(
+      fc.property(
+        fc.oneof(
+          big(fc.double({ min: -1e6, max: 1e6, noNaN: true })),
+          big(fc.integer({ min: 0, max: 5 })), // heavy ties: whole bins of equal values
+          big(fc.double({ min: 0, max: 1, noNaN: true }).map((u) => Math.exp(20 * u))), // long right tail
+          big(fc.double({ min: 0, max: 1, noNaN: true })).map((xs) => [...xs, 1e12, -1e12]), // two outliers squeeze the rest into one bin
+        ),
+        (xs) => {
+          const e = summarize(Float64Array.from(xs));
+          for (const [q, got] of [[0.05, e.p05], [0.5, e.median], [0.95, e.p95]] as const) {
+            const want = referenceQuantile(xs, q);
+            expect(Math.abs(got - want)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(want)));
+          }
+        },
+      ),
+      { numRuns: 60 },
+    );
+  });
+
   it('handles many ties and sorted input', () => {
     const a = Float64Array.from({ length: 1001 }, (_, i) => Math.floor(i / 100));
     expect(quantileInPlace(a.slice(), a.length, 0.5)).toBe(5);

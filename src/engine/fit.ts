@@ -87,26 +87,39 @@ const sol = new Float64Array(9);
 const sc = new Float64Array(4);
 // result of the last refinement: [p2, p1, p0, chi2, iterations, converged (1/0)]
 const best = new Float64Array(6);
+// a 3x3 system for solveSym3 that is not ev's: [m00, m01, m02, m11, m12, m22, g0, g1, g2]
+const sys = new Float64Array(9);
+// (p2, p1, p0) handed to evaluate() and refine(): doubles passed as arguments to a call that is not
+// inlined are boxed, one allocation each, on every fit
+const par = new Float64Array(3);
+function setPar(p2: number, p1: number, p0: number): void {
+  par[0] = p2;
+  par[1] = p1;
+  par[2] = p0;
+}
 
+// Hot paths write Number.POSITIVE_INFINITY, not the global Infinity: V8 loads globals as tagged
+// values, and merging one with a raw double can box that double on every pass.
 // Local copies: some module loaders turn each read of an imported binding into a getter call.
 const MAX_T = MAX_TIME_S;
 const MAX_R = MAX_RANGE_M;
 
 /**
  * Solves the symmetric 3x3 system M x = g by cofactors into `sol`, with M^-1. Returns false when M is
- * singular or not positive definite, judged on the scale-free correlation determinant.
+ * singular or not positive definite, judged on the scale-free correlation determinant. The system is
+ * read from a typed array, [m00, m01, m02, m11, m12, m22, g0, g1, g2] at `at`: passing nine doubles
+ * as arguments to a call V8 does not inline boxes each one, which allocated on every fit.
  */
-function solveSym3(
-  m00: number,
-  m01: number,
-  m02: number,
-  m11: number,
-  m12: number,
-  m22: number,
-  g0: number,
-  g1: number,
-  g2: number,
-): boolean {
+function solveSym3(sys: Float64Array, at: number): boolean {
+  const m00 = sys[at]!;
+  const m01 = sys[at + 1]!;
+  const m02 = sys[at + 2]!;
+  const m11 = sys[at + 3]!;
+  const m12 = sys[at + 4]!;
+  const m22 = sys[at + 5]!;
+  const g0 = sys[at + 6]!;
+  const g1 = sys[at + 7]!;
+  const g2 = sys[at + 8]!;
   const c00 = m11 * m22 - m12 * m12;
   const c01 = m02 * m12 - m01 * m22;
   const c02 = m01 * m12 - m02 * m11;
@@ -183,7 +196,7 @@ function prepare(t: Float64Array, r: Float64Array, sigma: Float64Array, n: numbe
   const invRs = 1 / r[0]!;
   let sw = 0;
   let swu = 0;
-  let prev = -Infinity;
+  let prev = Number.NEGATIVE_INFINITY;
   let ok = true;
   for (let i = 0; i < n; i++) {
     const ti = t[i]!;
@@ -203,7 +216,7 @@ function prepare(t: Float64Array, r: Float64Array, sigma: Float64Array, n: numbe
   if (!Number.isFinite(c)) return false;
   const tm = tMid + c / invHalf;
   const invTs = invHalf / Math.max(1 + c, 1 - c);
-  let minRho = Infinity;
+  let minRho = Number.POSITIVE_INFINITY;
   let s0 = 0;
   let s1 = 0;
   let s2 = 0;
@@ -235,14 +248,26 @@ function prepare(t: Float64Array, r: Float64Array, sigma: Float64Array, n: numbe
   sc[1] = invTs;
   sc[2] = invRs;
   sc[3] = minRho;
-  return solveSym3(s4, s3, s2, s2, s1, s0, y2, y1, y0);
+  sys[0] = s4;
+  sys[1] = s3;
+  sys[2] = s2;
+  sys[3] = s2;
+  sys[4] = s1;
+  sys[5] = s0;
+  sys[6] = y2;
+  sys[7] = y1;
+  sys[8] = y0;
+  return solveSym3(sys, 0);
 }
 
 /**
  * chi^2, the Gauss-Newton normal matrix A = J^T W J and g = -J^T W e for R = sqrt(p2 tau^2 + p1 tau +
  * p0), into `ev`. Returns chi^2, or Infinity when the model range would be imaginary or zero somewhere.
  */
-function evaluate(w: Float64Array, n: number, p2: number, p1: number, p0: number): number {
+function evaluate(w: Float64Array, n: number): boolean {
+  const p2 = par[0]!;
+  const p1 = par[1]!;
+  const p0 = par[2]!;
   // J_i = (tau^2, tau, 1) / 2m, so A is the Hankel matrix of the moments of u = w / 4m^2: five sums
   // instead of six products, which is a quarter of the cost of a pass
   let chi2 = 0;
@@ -254,7 +279,7 @@ function evaluate(w: Float64Array, n: number, p2: number, p1: number, p0: number
   let h0 = 0;
   let h1 = 0;
   let h2 = 0;
-  let minM2 = Infinity;
+  let minM2 = Number.POSITIVE_INFINITY;
   for (let k = 0, end = 3 * n; k < end; k += 3) {
     const tau = w[k]!;
     const m2 = (p2 * tau + p1) * tau + p0;
@@ -276,7 +301,7 @@ function evaluate(w: Float64Array, n: number, p2: number, p1: number, p0: number
     h1 -= we * tau;
     h2 -= we * tau2;
   }
-  if (!(minM2 > 0)) return Infinity;
+  if (!(minM2 > 0)) return false;
   ev[0] = chi2;
   ev[1] = s4;
   ev[2] = s3;
@@ -287,7 +312,7 @@ function evaluate(w: Float64Array, n: number, p2: number, p1: number, p0: number
   ev[7] = h2;
   ev[8] = h1;
   ev[9] = h0;
-  return chi2;
+  return true;
 }
 
 /**
@@ -297,14 +322,17 @@ function evaluate(w: Float64Array, n: number, p2: number, p1: number, p0: number
  * and in `ev` the evaluation at (or a hair before) it. Returns false if the start is invalid or the
  * normal matrix singular.
  */
-function refine(w: Float64Array, n: number, p2: number, p1: number, p0: number): boolean {
-  let chi2 = evaluate(w, n, p2, p1, p0);
-  if (chi2 === Infinity) return false;
+function refine(w: Float64Array, n: number): boolean {
+  let p2 = par[0]!;
+  let p1 = par[1]!;
+  let p0 = par[2]!;
+  if (!evaluate(w, n)) return false;
+  let chi2 = ev[0]!;
   let iterations = 0;
   let converged = false;
   while (iterations < MAX_ITERATIONS) {
     iterations++;
-    if (!solveSym3(ev[1]!, ev[2]!, ev[3]!, ev[4]!, ev[5]!, ev[6]!, ev[7]!, ev[8]!, ev[9]!)) return false;
+    if (!solveSym3(ev, 1)) return false;
     const d2 = sol[0]!;
     const d1 = sol[1]!;
     const d0 = sol[2]!;
@@ -328,7 +356,8 @@ function refine(w: Float64Array, n: number, p2: number, p1: number, p0: number):
       const c2 = p2 + step * d2;
       const c1 = p1 + step * d1;
       const c0 = p0 + step * d0;
-      const chi2n = evaluate(w, n, c2, c1, c0);
+      setPar(c2, c1, c0);
+      const chi2n = evaluate(w, n) ? ev[0]! : Number.POSITIVE_INFINITY;
       if (chi2n <= chi2) {
         p2 = c2;
         p1 = c1;
@@ -341,7 +370,8 @@ function refine(w: Float64Array, n: number, p2: number, p1: number, p0: number):
     }
     if (!accepted) {
       // no descent even for tiny steps: rounding has the last word, so this is the minimum
-      evaluate(w, n, p2, p1, p0);
+      setPar(p2, p1, p0);
+      evaluate(w, n);
       converged = promised < 1e-6;
       break;
     }
@@ -473,14 +503,15 @@ export function fitRangeOverTimeKernel(
   }
   // the start must give a real, non-zero model range at every sample: lift it if noise says otherwise
   const floor = 1e-4 * sc[3]! * sc[3]!;
-  let minM2 = Infinity;
+  let minM2 = Number.POSITIVE_INFINITY;
   for (let k = 0; k < 3 * n; k += 3) {
     const tau = w[k]!;
     const m2 = (p2 * tau + p1) * tau + p0;
     if (m2 < minM2) minM2 = m2;
   }
   if (!(minM2 > floor)) p0 += floor - minM2;
-  if (!refine(w, n, p2, p1, p0)) return FitStatus.SINGULAR;
+  setPar(p2, p1, p0);
+  if (!refine(w, n)) return FitStatus.SINGULAR;
   p2 = best[0]!;
   p1 = best[1]!;
   p0 = best[2]!;
@@ -500,10 +531,13 @@ export function fitRangeOverTimeKernel(
     chi2 = best[3]!;
     converged = best[5] === 1;
     // the full normal matrix at the boundary point, for the standard errors
-    if (evaluate(w, n, p2, p1, p0) === Infinity) return FitStatus.SINGULAR;
+    setPar(p2, p1, p0);
+    if (!evaluate(w, n)) return FitStatus.SINGULAR;
   }
   // `ev` now holds the evaluation at (or within a final tiny step of) the solution
-  if (!solveSym3(ev[1]!, ev[2]!, ev[3]!, ev[4]!, ev[5]!, ev[6]!, 0, 0, 0)) return FitStatus.SINGULAR;
+  for (let j = 0; j < 6; j++) sys[j] = ev[j + 1]!;
+  sys[6] = sys[7] = sys[8] = 0;
+  if (!solveSym3(sys, 0)) return FitStatus.SINGULAR;
   const c00 = sol[3]!;
   const c01 = sol[4]!;
   const c02 = sol[5]!;

@@ -54,12 +54,19 @@ export class Rng {
    * and one multiply.
    */
   normal(): number {
+    const bits = this.nextU32();
+    const iz = bits & 127;
+    const hz = (bits | 0) >> 7; // signed 25-bit value
+    // the fast path stays this small so that V8 inlines it: a call that is not inlined returns its
+    // double boxed, which would allocate on every draw
+    if (Math.abs(hz) < ZIG_K[iz]!) return hz * ZIG_W[iz]!;
+    return this.normalSlow(iz, hz);
+  }
+
+  /** The ziggurat's rare branches: the base strip's tail, and the wedges between layers. */
+  private normalSlow(iz: number, hz: number): number {
     for (;;) {
-      const bits = this.nextU32();
-      const iz = bits & 127;
-      const hz = (bits | 0) >> 7; // signed 25-bit value
       const x = hz * ZIG_W[iz]!;
-      if (Math.abs(hz) < ZIG_K[iz]!) return x;
       if (iz === 0) {
         // the tail beyond r, by Marsaglia's (1964) method
         let a = 0;
@@ -70,9 +77,23 @@ export class Rng {
         } while (b + b < a * a);
         return hz > 0 ? ZIG_R + a : -ZIG_R - a;
       }
-      // the wedge between this layer and the one above: accept under the density
+      // accept under the density
       if (ZIG_F[iz]! + this.uniform() * (ZIG_F[iz - 1]! - ZIG_F[iz]!) < Math.exp(-0.5 * x * x)) return x;
+      const bits = this.nextU32();
+      iz = bits & 127;
+      hz = (bits | 0) >> 7;
+      if (Math.abs(hz) < ZIG_K[iz]!) return hz * ZIG_W[iz]!;
     }
+  }
+
+  /** Fills out[0..n) with normals of standard deviation sd, with no per-draw allocation. */
+  fillNormal(out: Float64Array, n: number, sd = 1): void {
+    for (let i = 0; i < n; i++) out[i] = sd * this.normal();
+  }
+
+  /** Fills out[0..n) with uniforms in [lo, hi). */
+  fillBetween(out: Float64Array, n: number, lo: number, hi: number): void {
+    for (let i = 0; i < n; i++) out[i] = lo + (hi - lo) * (this.nextU32() / 4294967296);
   }
 
   /** Normal with mean and standard deviation. */

@@ -35,9 +35,14 @@ export function impliedSpeedFromLandmark(observerSpeedMs: number, objectRange: n
   positive('landmark range', landmarkRange, MAX_RANGE_M, ' m');
   return finiteResult(
     'implied speed',
-    observerSpeedMs * (1 - objectRange / landmarkRange),
+    impliedSpeedUnchecked(observerSpeedMs, objectRange, landmarkRange),
     'the landmark is too close for the ratio of ranges to be represented',
   );
+}
+
+/** The arithmetic of impliedSpeedFromLandmark without its checks, for Monte Carlo loops that validated once. */
+export function impliedSpeedUnchecked(observerSpeedMs: number, objectRange: number, landmarkRange: number): number {
+  return observerSpeedMs * (1 - objectRange / landmarkRange);
 }
 
 export type Direction = 'opposite' | 'same' | 'stationary';

@@ -81,23 +81,28 @@ function binnedQuantiles(a: Float64Array, m: number, min: number, max: number): 
       off += binCount[b]!;
     }
   }
-  if (scratch.length < off) scratch = new Float64Array(Math.max(off, 1024));
+  // grow geometrically, so that columns of similar shape stop reallocating after the first
+  if (scratch.length < off) scratch = new Float64Array(Math.max(off, 2 * scratch.length, 1024));
   for (let i = 0; i < m; i++) {
     const v = a[i]!;
     const b = ((v - min) * scale) | 0;
     if (wanted[b]) scratch[base[b]! + fill[b]!++] = v;
   }
-  const orderStat = (k: number): number => {
-    const b = binOf(k);
-    return select(scratch, base[b]!, base[b]! + binCount[b]! - 1, base[b]! + (k - binStart[b]!));
-  };
-  const quantile = (q: number, j: number): number => {
-    const h = (m - 1) * q;
+  for (let j = 0; j < 3; j++) {
+    const h = (m - 1) * QS[j]!;
     const lo = need[2 * j]!;
     const vLo = orderStat(lo);
-    return h === lo ? vLo : vLo + (h - lo) * (orderStat(need[2 * j + 1]!) - vLo);
-  };
-  return { p05: quantile(0.05, 0), median: quantile(0.5, 1), p95: quantile(0.95, 2) };
+    qOut[j] = h === lo ? vLo : vLo + (h - lo) * (orderStat(need[2 * j + 1]!) - vLo);
+  }
+  return { p05: qOut[0]!, median: qOut[1]!, p95: qOut[2]! };
+}
+
+const qOut = new Float64Array(3);
+
+/** Order statistic k of the gathered values (see binnedQuantiles). */
+function orderStat(k: number): number {
+  const b = binOf(k);
+  return select(scratch, binBase[b]!, binBase[b]! + binCount[b]! - 1, binBase[b]! + (k - binStart[b]!));
 }
 
 /** The bin holding order statistic k (binary search over the cumulative counts). */

@@ -6,7 +6,7 @@ import { parallelFixedPointFraction } from './fixedpoint';
 import { rangeUnchecked } from './range';
 import { Rng } from './rng';
 import { finiteShare, summarize, type Estimate } from './stats';
-import { impliedSpeedFromLandmark } from './speed';
+import { impliedSpeedUnchecked } from './speed';
 import { band, finite, inRange, integer, positive } from './validate';
 
 /*
@@ -84,6 +84,12 @@ export interface SolveOptions {
 }
 
 const DEFAULT_DRAWS = 20_000;
+/*
+ * Loops write `Number.NaN`, never the global `NaN`: V8 (Node 20) loads the global as a tagged value,
+ * and a ternary that merges it with a raw double makes every iteration box its double, 16 bytes a
+ * draw. A module constant does not help once a bundler turns it into a `var`; `Number.NaN` is
+ * read-only, so the optimiser folds it.
+ */
 const DEFAULT_SEED = 1;
 
 /** Reusable column storage: solving the same size twice (a live readout) allocates nothing new. */
@@ -143,16 +149,16 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
       for (let i = 0; i < n; i++) {
         const R = range[i]!;
         const d = dRange[i]!;
-        const ok = R > 0 && d > 0; // false for NaN too
-        frac[i] = ok ? d / R : NaN;
-        speed[i] = ok && work[i]! > 0 ? impliedSpeedFromLandmark(work[i]!, R, d) : NaN;
+        const ok = R > 0 && d > 0; // false for Number.NaN too
+        frac[i] = ok ? d / R : Number.NaN;
+        speed[i] = ok && work[i]! > 0 ? impliedSpeedUnchecked(work[i]!, R, d) : Number.NaN;
       }
     } else {
       fillUniform(rng, ws!, speed, n); // assumed object speed
       for (let i = 0; i < n; i++) {
         const f = parallelFixedPointFraction(work[i]!, speed[i]!);
-        frac[i] = f === Infinity ? NaN : f;
-        fdist[i] = f === Infinity ? NaN : f * range[i]!;
+        frac[i] = f === Infinity ? Number.NaN : f;
+        fdist[i] = f === Infinity ? Number.NaN : f * range[i]!;
       }
     }
     shares = regimeShares(frac, range, n);
@@ -270,7 +276,7 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
     const status = bad ? -1 : fitRangeOverTimeKernel(t, r, sig, n, out);
     if (status !== FitStatus.OK) {
       failed++;
-      dp[i] = vr[i] = t0[i] = wOpp[i] = wSlow[i] = wFast[i] = NaN;
+      dp[i] = vr[i] = t0[i] = wOpp[i] = wSlow[i] = wFast[i] = Number.NaN;
       continue;
     }
     const V = out[FIT_OUT.relativeSpeed]!;
@@ -279,8 +285,8 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
     vr[i] = V;
     t0[i] = out[FIT_OUT.tClosest]!;
     // the three readings of the direction of travel (fit.ts objectSpeedFromRelative, per draw)
-    wOpp[i] = V >= ui ? V - ui : NaN;
-    wSlow[i] = V <= ui ? ui - V : NaN;
+    wOpp[i] = V >= ui ? V - ui : Number.NaN;
+    wSlow[i] = V <= ui ? ui - V : Number.NaN;
     wFast[i] = ui + V;
   }
 
@@ -318,7 +324,7 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
 
 function fillUniform(rng: Rng, b: Band, out: Float64Array, n: number): void {
   if (b.lo === b.hi) out.fill(b.lo, 0, n);
-  else for (let i = 0; i < n; i++) out[i] = rng.between(b.lo, b.hi);
+  else rng.fillBetween(out, n, b.lo, b.hi);
 }
 
 function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number): void {
@@ -335,25 +341,27 @@ function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number): void {
  */
 function fillHalfTans(rng: Rng, s: SpanMark, W: number, H: number, tanHalf: Float64Array, out: Float64Array, n: number): void {
   const [len, c0, q0] = spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H) as unknown as [number, number, number];
-  const sd = Math.SQRT2 * s.edgeSigmaPx;
   // normals first, geometry second: two simple loops pipeline better than one mixed loop
-  for (let i = 0; i < n; i++) out[i] = rng.normal();
+  rng.fillNormal(out, n, Math.SQRT2 * s.edgeSigmaPx);
   for (let i = 0; i < n; i++) {
-    const h = spanHalfAngleTanUnchecked(len, c0, q0, sd * out[i]!, (2 * tanHalf[i]!) / W);
-    out[i] = h > 0 ? h : NaN;
+    const h = spanHalfAngleTanUnchecked(len, c0, q0, out[i]!, (2 * tanHalf[i]!) / W);
+    out[i] = h > 0 ? h : Number.NaN;
   }
 }
 
 function fillSinAspect(rng: Rng, aspect: Band, out: Float64Array, n: number): void {
   if (aspect.lo === aspect.hi) out.fill(Math.sin(aspect.lo), 0, n);
-  else for (let i = 0; i < n; i++) out[i] = Math.sin(rng.between(aspect.lo, aspect.hi));
+  else {
+    rng.fillBetween(out, n, aspect.lo, aspect.hi);
+    for (let i = 0; i < n; i++) out[i] = Math.sin(out[i]!);
+  }
 }
 
 /** Range per draw from tan(theta/2), size and sin(aspect); NaN where the angle is NaN or the range out of bounds. */
 function fillRanges(size: Float64Array, sinA: Float64Array, halfTan: Float64Array, out: Float64Array, n: number): void {
   for (let i = 0; i < n; i++) {
     const r = rangeUnchecked(size[i]!, halfTan[i]!, sinA[i]!);
-    out[i] = r > 0 && r <= MAX_RANGE_M ? r : NaN;
+    out[i] = r > 0 && r <= MAX_RANGE_M ? r : Number.NaN;
   }
 }
 

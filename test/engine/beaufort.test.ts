@@ -3,19 +3,10 @@ import fc from 'fast-check';
 import { BEAUFORT_SCALE, beaufortForce, beaufortForceExtended } from '../../src/engine/beaufort';
 import { KNOT_MS, MAX_SPEED_MS } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
 const kn = (k: number) => k * KNOT_MS;
 
-function expectInputError(f: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    f();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-}
 
 // Met Office Beaufort scale in knots, as printed in REFERENCES.md: 0 < 1; 1: 1-3; 2: 4-6; ... 12: >= 64
 const MET_OFFICE: [number, number, string][] = [

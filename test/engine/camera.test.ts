@@ -16,17 +16,8 @@ import {
 } from '../../src/engine/camera';
 import { DEG, FULL_FRAME_DIAGONAL_MM, MAX_FRAME_PX } from '../../src/engine/constants';
 import { InputError, UndeterminedError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
-function expectInputError(fn: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-}
 
 /** Either a plausible value or any double at all (NaN, infinities, huge, tiny, negative). */
 function mixed(valid: fc.Arbitrary<number>): fc.Arbitrary<number> {

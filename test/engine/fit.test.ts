@@ -17,6 +17,7 @@ import {
 import { InputError, UndeterminedError } from '../../src/engine/errors';
 import { Rng } from '../../src/engine/rng';
 import { MAX_RANGE_M } from '../../src/engine/constants';
+import { expectInputError } from './expect-error';
 
 /*
  * Every pass below is invented. The model R(t)^2 = D'^2 + V^2 (t - t0)^2 is Pythagoras on a straight
@@ -64,17 +65,6 @@ function expectUndetermined(fn: () => unknown, pattern?: RegExp): void {
   if (pattern) expect((caught as Error).message).toMatch(pattern);
 }
 
-function expectInputError(fn: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).field).toBe(field);
-  expect((caught as Error).message).toContain(field);
-}
 
 // invented passes: symmetric, closest approach before / after the window, irregular one-sided sampling,
 // a far fast pass late in a long clip
@@ -417,17 +407,17 @@ describe('fitRangeOverTimeKernel', () => {
 
   it('throws InputError for a bad count, short arrays, a short output or workspace, and bad values', () => {
     const out = new Float64Array(FIT_OUT_LENGTH);
-    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 2, out), 'sample count');
-    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 2.5, out), 'sample count');
-    expectInputError(() => fitRangeOverTimeKernel(t, r, sg.subarray(0, 5), 6, out), 'sample count');
-    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 5, new Float64Array(4)), 'output length');
-    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 5, out, new Float64Array(14)), 'workspace length');
+    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 2, out), 'sample count', { exactField: true });
+    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 2.5, out), 'sample count', { exactField: true });
+    expectInputError(() => fitRangeOverTimeKernel(t, r, sg.subarray(0, 5), 6, out), 'sample count', { exactField: true });
+    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 5, new Float64Array(4)), 'output length', { exactField: true });
+    expectInputError(() => fitRangeOverTimeKernel(t, r, sg, 5, out, new Float64Array(14)), 'workspace length', { exactField: true });
     const bad = Float64Array.from(r);
     bad[3] = -1;
-    expectInputError(() => fitRangeOverTimeKernel(t, bad, sg, t.length, out), 'range[3]');
+    expectInputError(() => fitRangeOverTimeKernel(t, bad, sg, t.length, out), 'range[3]', { exactField: true });
     const badT = Float64Array.from(t);
     badT[4] = badT[3]!;
-    expectInputError(() => fitRangeOverTimeKernel(badT, r, sg, t.length, out), 'timestamp[4]');
+    expectInputError(() => fitRangeOverTimeKernel(badT, r, sg, t.length, out), 'timestamp[4]', { exactField: true });
   });
 });
 
@@ -462,7 +452,7 @@ describe('fitRangeOverTime: undetermined cases', () => {
 
   it('reports all-equal timestamps as an input error on the second one (never reaches the fit)', () => {
     const s = [0, 1, 2].map(() => ({ t: 4, range: 1000, sigma: 10 }));
-    expectInputError(() => fitRangeOverTime(s), 'timestamp[1]');
+    expectInputError(() => fitRangeOverTime(s), 'timestamp[1]', { exactField: true });
   });
 });
 
@@ -470,32 +460,32 @@ describe('fitRangeOverTime: invalid input', () => {
   const good = (): RangeSample[] => exactSamples({ D: 1000, V: 50, t0: 5 }, [0, 2, 4, 6, 8], () => 10);
 
   it('throws InputError naming the field and index', () => {
-    expectInputError(() => fitRangeOverTime(good().slice(0, 2)), 'samples');
-    expectInputError(() => fitRangeOverTime('nope' as unknown as RangeSample[]), 'samples');
+    expectInputError(() => fitRangeOverTime(good().slice(0, 2)), 'samples', { exactField: true });
+    expectInputError(() => fitRangeOverTime('nope' as unknown as RangeSample[]), 'samples', { exactField: true });
     const outOfOrder = good();
     outOfOrder[2]!.t = 1;
-    expectInputError(() => fitRangeOverTime(outOfOrder), 'timestamp[2]');
+    expectInputError(() => fitRangeOverTime(outOfOrder), 'timestamp[2]', { exactField: true });
     const repeated = good();
     repeated[3]!.t = repeated[2]!.t;
-    expectInputError(() => fitRangeOverTime(repeated), 'timestamp[3]');
+    expectInputError(() => fitRangeOverTime(repeated), 'timestamp[3]', { exactField: true });
     const negativeT = good();
     negativeT[0]!.t = -1;
-    expectInputError(() => fitRangeOverTime(negativeT), 'timestamp[0]');
+    expectInputError(() => fitRangeOverTime(negativeT), 'timestamp[0]', { exactField: true });
     const zeroRange = good();
     zeroRange[1]!.range = 0;
-    expectInputError(() => fitRangeOverTime(zeroRange), 'range[1]');
+    expectInputError(() => fitRangeOverTime(zeroRange), 'range[1]', { exactField: true });
     const hugeRange = good();
     hugeRange[1]!.range = MAX_RANGE_M * 2;
-    expectInputError(() => fitRangeOverTime(hugeRange), 'range[1]');
+    expectInputError(() => fitRangeOverTime(hugeRange), 'range[1]', { exactField: true });
     const zeroSigma = good();
     zeroSigma[0]!.sigma = 0;
-    expectInputError(() => fitRangeOverTime(zeroSigma), 'sigma[0]');
+    expectInputError(() => fitRangeOverTime(zeroSigma), 'sigma[0]', { exactField: true });
     const textT = good();
     (textT[4] as unknown as { t: string }).t = '8';
-    expectInputError(() => fitRangeOverTime(textT), 'timestamp[4]');
+    expectInputError(() => fitRangeOverTime(textT), 'timestamp[4]', { exactField: true });
     const hole = good() as unknown[];
     hole[1] = null;
-    expectInputError(() => fitRangeOverTime(hole as RangeSample[]), 'samples[1]');
+    expectInputError(() => fitRangeOverTime(hole as RangeSample[]), 'samples[1]', { exactField: true });
   });
 
   it('property: corrupting any one field of any sample throws InputError naming it (fast-check)', () => {
@@ -610,10 +600,10 @@ describe('bootstrapRangeFit', () => {
   });
 
   it('throws InputError for draws or seed out of range, UndeterminedError for undetermined data', () => {
-    expectInputError(() => bootstrapRangeFit(samples, 99, 1), 'draws');
-    expectInputError(() => bootstrapRangeFit(samples, 100001, 1), 'draws');
-    expectInputError(() => bootstrapRangeFit(samples, 500.5, 1), 'draws');
-    expectInputError(() => bootstrapRangeFit(samples, 500, -1), 'seed');
+    expectInputError(() => bootstrapRangeFit(samples, 99, 1), 'draws', { exactField: true });
+    expectInputError(() => bootstrapRangeFit(samples, 100001, 1), 'draws', { exactField: true });
+    expectInputError(() => bootstrapRangeFit(samples, 500.5, 1), 'draws', { exactField: true });
+    expectInputError(() => bootstrapRangeFit(samples, 500, -1), 'seed', { exactField: true });
     const flat = grid(0, 10, 11).map((t) => ({ t, range: 1500, sigma: 5 }));
     expectUndetermined(() => bootstrapRangeFit(flat, 500, 1));
   });
@@ -660,9 +650,9 @@ describe('objectSpeedFromRelative', () => {
   });
 
   it('throws InputError for invalid speeds', () => {
-    expectInputError(() => objectSpeedFromRelative(NaN, 10), 'observer speed');
-    expectInputError(() => objectSpeedFromRelative(2000, 10), 'observer speed');
-    expectInputError(() => objectSpeedFromRelative(20, -1), 'relative speed');
-    expectInputError(() => objectSpeedFromRelative(20, Infinity), 'relative speed');
+    expectInputError(() => objectSpeedFromRelative(NaN, 10), 'observer speed', { exactField: true });
+    expectInputError(() => objectSpeedFromRelative(2000, 10), 'observer speed', { exactField: true });
+    expectInputError(() => objectSpeedFromRelative(20, -1), 'relative speed', { exactField: true });
+    expectInputError(() => objectSpeedFromRelative(20, Infinity), 'relative speed', { exactField: true });
   });
 });

@@ -14,17 +14,8 @@ import {
 import { angleBetweenColumns } from '../../src/engine/camera';
 import { DEG, MAX_FRAME_PX } from '../../src/engine/constants';
 import { InputError, UndeterminedError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
-function expectInputError(fn: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-}
 
 describe('wholeVideoFrame', () => {
   it('covers the whole video', () => {

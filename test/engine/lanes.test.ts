@@ -3,17 +3,8 @@ import fc from 'fast-check';
 import { LANE_CYCLES, customLaneCycle, laneCycleById, observerSpeedFromDashes } from '../../src/engine/lanes';
 import { FOOT_M, KMH_MS, MAX_SPEED_MS } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
-function expectInputError(f: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    f();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-}
 
 // REFERENCES.md, "Broken lane-line cycles": [id, segment m, gap m, cycle m, source as printed there]
 const TABLE: [string, number, number, number, string][] = [

@@ -16,20 +16,11 @@ import { beaufortForce } from '../../src/engine/beaufort';
 import { FOOT_M, KNOT_MS } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
 import type { Estimate } from '../../src/engine/stats';
+import { expectInputError } from './expect-error';
 
 const kn = (k: number) => k * KNOT_MS;
 const kts = (lo: number, med: number, hi: number): Estimate => ({ p05: kn(lo), median: kn(med), p95: kn(hi) });
 
-function expectInputError(f: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    f();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-}
 
 describe('published envelopes as data', () => {
   it('approach categories by Vat: A < 91, B 91-120, C 121-140, D 141-165, E 166-210 kt (EU Regulation 2019/1384 CAT.OP.MPA.320 Table 1; 14 CFR 97.3)', () => {

@@ -10,22 +10,12 @@ import {
 } from '../../src/engine/profiles';
 import { DEG, FULL_FRAME_DIAGONAL_MM } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
 /* Independent arithmetic: 4:3 on the 43.27 mm diagonal is a 3-4-5 triangle (CIPA DCG-001 diagonal). */
 const W43 = (FULL_FRAME_DIAGONAL_MM * 4) / 5;
 const hfovDeg = (widthMm: number, f: number, crop = 0) => (2 * Math.atan(widthMm / (2 * f) / (1 + crop))) / DEG;
 
-function expectInputError(fn: () => unknown, field: string): InputError {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-  return caught as InputError;
-}
 
 describe('CAMERA_PROFILES data', () => {
   it('has the generic classes asked for, with unique ids', () => {

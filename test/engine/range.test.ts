@@ -4,20 +4,10 @@ import { angularSizeAt, rangeFromAngularSize, rangeFromColumns } from '../../src
 import { angleBetweenColumns, focalLengthPx } from '../../src/engine/camera';
 import { DEG, MAX_RANGE_M, MAX_SIZE_M, MAX_FRAME_PX } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
 const ARCSEC = DEG / 3600;
 
-function expectInputError(fn: () => unknown, field: string): InputError {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-  return caught as InputError;
-}
 
 /*
  * The astronomical checks exceed the engine's bounds (MAX_SIZE_M, MAX_RANGE_M), which are sized for

@@ -12,18 +12,8 @@ import {
 } from '../../src/engine/size';
 import { MAX_SIZE_M } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
-function expectInputError(fn: () => unknown, field: string): InputError {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-  return caught as InputError;
-}
 
 describe('codeLetterForWingspan: ICAO Annex 14 Vol I, 8th ed. (2018), Table 1-1, bands exclude their upper value', () => {
   const cases: [number, CodeLetter][] = [

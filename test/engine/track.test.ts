@@ -4,6 +4,7 @@ import { fixedCameraTrack, type FixedCamera, type TrackSample } from '../../src/
 import { fitRangeOverTime } from '../../src/engine/fit';
 import { InputError } from '../../src/engine/errors';
 import { DEG, MAX_RANGE_M } from '../../src/engine/constants';
+import { expectInputError } from './expect-error';
 
 /*
  * All scenes are invented. Marks are generated from exact plane geometry (object and camera on
@@ -48,17 +49,6 @@ function camera(s: Scene): FixedCamera {
   return { axisHeading: s.axisHeading, velocity: s.camera, t0: 0 };
 }
 
-function expectInputError(fn: () => unknown, field: string): void {
-  let caught: unknown;
-  try {
-    fn();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).field).toBe(field);
-  expect((caught as Error).message).toContain(field);
-}
 
 const times = [0, 2, 4, 6, 8, 10, 12];
 
@@ -294,32 +284,33 @@ describe('fixedCameraTrack: properties (fast-check)', () => {
   it('throws InputError for bad sample lists and cameras', () => {
     const cam = { axisHeading: 0, velocity: { x: 0, y: 0 } };
     const one = [{ t: 0, bearing: 0, range: 100 }];
-    expectInputError(() => fixedCameraTrack(one, cam), 'samples');
-    expectInputError(() => fixedCameraTrack(null as unknown as TrackSample[], cam), 'samples');
+    expectInputError(() => fixedCameraTrack(one, cam), 'samples', { exactField: true });
+    expectInputError(() => fixedCameraTrack(null as unknown as TrackSample[], cam), 'samples', { exactField: true });
     const same = [
       { t: 3, bearing: 0, range: 100 },
       { t: 3, bearing: 0, range: 100 },
     ];
-    expectInputError(() => fixedCameraTrack(same, cam), 'timestamp[1]');
+    expectInputError(() => fixedCameraTrack(same, cam), 'timestamp[1]', { exactField: true });
     const backwards = [
       { t: 3, bearing: 0, range: 100 },
       { t: 2, bearing: 0, range: 100 },
     ];
-    expectInputError(() => fixedCameraTrack(backwards, cam), 'timestamp[1]');
+    expectInputError(() => fixedCameraTrack(backwards, cam), 'timestamp[1]', { exactField: true });
     const ok = [
       { t: 0, bearing: 0, range: 100 },
       { t: 1, bearing: 0, range: 100 },
     ];
-    expectInputError(() => fixedCameraTrack(ok, { axisHeading: NaN, velocity: { x: 0, y: 0 } }), 'camera axis heading');
-    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: NaN, y: 0 } }), 'camera velocity x');
-    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: 0, y: 5000 } }), 'camera velocity y');
-    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: 800, y: 800 } }), 'camera speed');
+    expectInputError(() => fixedCameraTrack(ok, { axisHeading: NaN, velocity: { x: 0, y: 0 } }), 'camera axis heading', { exactField: true });
+    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: NaN, y: 0 } }), 'camera velocity x', { exactField: true });
+    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: 0, y: 5000 } }), 'camera velocity y', { exactField: true });
+    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: 800, y: 800 } }), 'camera speed', { exactField: true });
     expectInputError(
       () => fixedCameraTrack(ok, { axisHeading: 0, velocity: undefined as unknown as { x: number; y: number } }),
       'camera velocity',
+      { exactField: true },
     );
-    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: 0, y: 0 }, t0: -5 }), 'camera t0');
-    expectInputError(() => fixedCameraTrack(ok, undefined as unknown as FixedCamera), 'camera');
+    expectInputError(() => fixedCameraTrack(ok, { axisHeading: 0, velocity: { x: 0, y: 0 }, t0: -5 }), 'camera t0', { exactField: true });
+    expectInputError(() => fixedCameraTrack(ok, undefined as unknown as FixedCamera), 'camera', { exactField: true });
   });
 
   it('leaves its inputs untouched', () => {

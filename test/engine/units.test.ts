@@ -15,18 +15,8 @@ import {
   STATUTE_MILE_M,
 } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
+import { expectInputError } from './expect-error';
 
-function expectInputError(f: () => unknown, field: string): InputError {
-  let caught: unknown;
-  try {
-    f();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(InputError);
-  expect((caught as InputError).message).toContain(field);
-  return caught as InputError;
-}
 
 /** Equal to within a couple of units in the last place. */
 function expectNear(actual: number, expected: number): void {

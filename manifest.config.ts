@@ -1,9 +1,12 @@
 import { defineManifest } from '@crxjs/vite-plugin';
 import pkg from './package.json' with { type: 'json' };
 
-// No content scripts and no host permissions: the overlay is injected only when the user asks
-// (activeTab grants the current tab for that one gesture).
-export default defineManifest({
+/*
+ * No content scripts and no host permissions: the overlay is injected only when the user asks
+ * (activeTab grants the current tab for that one gesture). The e2e build alone adds the local test
+ * origins, because browser tests cannot click the toolbar.
+ */
+export default defineManifest(({ mode }) => ({
   manifest_version: 3,
   name: '__MSG_extName__',
   description: '__MSG_extDescription__',
@@ -17,5 +20,12 @@ export default defineManifest({
     default_icon: { 16: 'icons/icon-16.png', 32: 'icons/icon-32.png' },
   },
   background: { service_worker: 'extension/background/index.ts', type: 'module' },
-  permissions: ['storage'],
-});
+  commands: {
+    'measure-video': {
+      suggested_key: { default: 'Alt+Shift+M' },
+      description: '__MSG_commandMeasure__',
+    },
+  },
+  permissions: ['activeTab', 'scripting', 'storage', 'contextMenus'],
+  ...(mode === 'e2e' ? { host_permissions: ['http://127.0.0.1/*', 'http://localhost/*'] } : {}),
+}));

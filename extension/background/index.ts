@@ -1,11 +1,37 @@
-import { browser, extensionVersion } from '../shared/browser';
+import { SCHEMA_VERSION } from '../../src/case/schema';
+import { browser, extensionVersion, message } from '../shared/browser';
+import { deleteMark, openCase, putMark, readCase, setAssumptions } from './cases';
+import { injectOverlay } from './inject';
 import { routeMessages } from './router';
 
-// Storage schema version; the case model (src/case) owns migrations once it exists.
-const SCHEMA_VERSION = 1;
+const MENU_ID = 'clip-caliper-measure-video';
+export const COMMAND_ID = 'measure-video';
 
 browser.runtime.onMessage.addListener(
   routeMessages({
     'status/get': async () => ({ version: extensionVersion(), schema: SCHEMA_VERSION }),
+    'case/open': async ({ caseId, video }) => openCase(caseId, video, extensionVersion()),
+    'case/get': async ({ caseId }) => readCase(caseId),
+    'mark/put': async ({ caseId, mark }) => putMark(caseId, mark),
+    'mark/remove': async ({ caseId, markId }) => deleteMark(caseId, markId),
+    'case/assume': async ({ caseId, assumptions }) => setAssumptions(caseId, assumptions),
+    'overlay/inject': async ({ tabId }) => ({ injected: await injectOverlay(tabId) }),
   }),
 );
+
+browser.runtime.onInstalled.addListener(() => {
+  browser.contextMenus.create({ id: MENU_ID, title: message('menuMeasureVideo'), contexts: ['video'] });
+});
+
+browser.contextMenus.onClicked.addListener((info, tab) => {
+  if (info.menuItemId === MENU_ID && tab?.id !== undefined) void injectOverlay(tab.id, info.frameId || undefined);
+});
+
+browser.commands.onCommand.addListener((command, tab) => {
+  if (command === COMMAND_ID && tab?.id !== undefined) void injectOverlay(tab.id);
+});
+
+// The e2e build exposes the same injection to the browser tests, which cannot click the toolbar.
+if (import.meta.env.MODE === 'e2e') {
+  (globalThis as unknown as { __clipCaliperInject: typeof injectOverlay }).__clipCaliperInject = injectOverlay;
+}

@@ -1,6 +1,6 @@
 import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
-import { message as t, send } from '../shared/browser';
+import { browser, message as t, send } from '../shared/browser';
 
 function Cautions() {
   return (
@@ -8,6 +8,34 @@ function Cautions() {
       <p>{t('cautionDriving')}</p>
       <p>{t('cautionEstimate')}</p>
       <p>{t('cautionPerson')}</p>
+    </section>
+  );
+}
+
+function MeasureButton() {
+  const [error, setError] = useState<string | null>(null);
+  const measure = async () => {
+    setError(null);
+    try {
+      const [tab] = await browser.tabs.query({ active: true, currentWindow: true });
+      if (tab?.id === undefined) throw new Error('no active tab');
+      await send('overlay/inject', { tabId: tab.id });
+      window.close();
+    } catch (e) {
+      setError(t('popupInjectFailed', (e as Error).message));
+    }
+  };
+  return (
+    <section>
+      <button type="button" class="primary" onClick={measure} data-testid="measure">
+        {t('popupMeasure')}
+      </button>
+      <p class="muted">{t('popupMeasureHint')}</p>
+      {error && (
+        <p class="error" role="alert">
+          {error}
+        </p>
+      )}
     </section>
   );
 }
@@ -21,7 +49,7 @@ function Popup() {
     <main>
       <h1>{t('popupHeading')}</h1>
       <Cautions />
-      <p class="muted">{t('popupNoCase')}</p>
+      <MeasureButton />
       <footer class="muted" data-testid="version">
         {version ? t('popupVersion', version) : '…'}
       </footer>

@@ -1,3 +1,5 @@
+import type { CaseAssumptions, CaseRecord, Mark, VideoInfo } from '../../src/case/schema';
+
 /**
  * The one typed contract for messages between background, overlay and popup. Each request names
  * its payload and its reply; `send` and the background's router are typed from this map, so a
@@ -6,6 +8,17 @@
 export interface RequestMap {
   /** Liveness and version, used by the popup's footer and by the browser tests. */
   'status/get': { payload: Record<string, never>; reply: { version: string; schema: number } };
+  /** Open (or create) the case for a video; the overlay calls this when it mounts. */
+  'case/open': { payload: { caseId: string; video: VideoInfo }; reply: CaseRecord };
+  /** Read a case, or null if there is none. */
+  'case/get': { payload: { caseId: string }; reply: CaseRecord | null };
+  /** Add a mark, or replace the one with the same id; saved before the reply. */
+  'mark/put': { payload: { caseId: string; mark: Mark }; reply: CaseRecord };
+  'mark/remove': { payload: { caseId: string; markId: string }; reply: CaseRecord };
+  /** Set the assumptions behind a case's figures (the popup's editor; the overlay follows). */
+  'case/assume': { payload: { caseId: string; assumptions: CaseAssumptions }; reply: CaseRecord };
+  /** The popup asks the background to call the overlay up in the current tab. */
+  'overlay/inject': { payload: { tabId: number }; reply: { injected: boolean } };
 }
 
 export type RequestType = keyof RequestMap;

@@ -1,0 +1,64 @@
+import { forceStyle, h } from './dom';
+import { OVERLAY_CSS } from './styles';
+
+/**
+ * A small panel of our own when the page has several videos (or none): one button per video, which
+ * outlines its video on hover and focus. Lives in its own shadow root like the overlay.
+ */
+export class Chooser {
+  private readonly el: HTMLElement;
+  private readonly outline: HTMLElement;
+  private readonly ac = new AbortController();
+
+  constructor(videos: HTMLVideoElement[], foreignOrigins: string[], onChoose: (v: HTMLVideoElement) => void) {
+    this.el = document.createElement('clip-caliper-chooser');
+    forceStyle(this.el, { all: 'initial', position: 'fixed', right: '12px', top: '12px', 'z-index': '2147483647', display: 'block' });
+    const root = this.el.attachShadow({ mode: 'open' });
+    this.outline = document.createElement('clip-caliper-outline');
+    forceStyle(this.outline, { all: 'initial', position: 'fixed', 'z-index': '2147483646', display: 'none', 'pointer-events': 'none', outline: '3px solid #0b63c7', 'outline-offset': '2px' });
+    const signal = this.ac.signal;
+    const list = h('div', { class: 'row tools', role: 'list' });
+    videos.forEach((v, i) => {
+      const label = `Video ${i + 1}: ${v.videoWidth || '?'}×${v.videoHeight || '?'}${Number.isFinite(v.duration) ? `, ${v.duration.toFixed(1)} s` : ''}`;
+      const b = h('button', { type: 'button', role: 'listitem', 'data-video-index': i }, label);
+      const show = () => this.show(v);
+      b.addEventListener('mouseenter', show, { signal });
+      b.addEventListener('focus', show, { signal });
+      b.addEventListener('click', () => {
+        this.destroy();
+        onChoose(v);
+      }, { signal });
+      list.append(b);
+    });
+    const close = h('button', { type: 'button', class: 'close' }, 'Close');
+    close.addEventListener('click', () => this.destroy(), { signal });
+    const heading = videos.length
+      ? 'Which video do you want to measure?'
+      : 'No video found on this page.';
+    const foreign = foreignOrigins.length
+      ? h('div', { class: 'notice' }, `Videos inside frames from ${foreignOrigins.join(', ')} need permission for those sites: allow them from the Clip Caliper popup.`)
+      : '';
+    root.append(h('style', {}, OVERLAY_CSS), h('div', { class: 'panel', role: 'dialog', 'aria-label': 'Clip Caliper: choose a video', style: 'position: static' }, h('div', { 'data-testid': 'chooser-heading' }, heading), list, foreign, h('div', { class: 'row' }, close)));
+    this.el.addEventListener('keydown', (e) => {
+      e.stopPropagation();
+      if (e.key === 'Escape') this.destroy();
+    }, { signal });
+    document.documentElement.append(this.outline, this.el);
+    (root.querySelector('button') as HTMLButtonElement | null)?.focus();
+  }
+
+  private show(v: HTMLVideoElement): void {
+    const r = v.getBoundingClientRect();
+    forceStyle(this.outline, { display: 'block', left: `${r.left}px`, top: `${r.top}px`, width: `${r.width}px`, height: `${r.height}px` });
+  }
+
+  get alive(): boolean {
+    return !this.ac.signal.aborted;
+  }
+
+  destroy(): void {
+    this.ac.abort();
+    this.el.remove();
+    this.outline.remove();
+  }
+}

@@ -1,0 +1,26 @@
+/** A small element builder: the overlay uses plain DOM so a pointer move touches only what it must. */
+export function h<K extends keyof HTMLElementTagNameMap>(
+  tag: K,
+  attrs: Record<string, string | number | boolean | undefined> = {},
+  ...children: (Node | string)[]
+): HTMLElementTagNameMap[K] {
+  const el = document.createElement(tag);
+  for (const [k, v] of Object.entries(attrs)) {
+    if (v === undefined || v === false) continue;
+    el.setAttribute(k, v === true ? '' : String(v));
+  }
+  el.append(...children);
+  return el;
+}
+
+const SVG_NS = 'http://www.w3.org/2000/svg';
+export function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number> = {}): SVGElementTagNameMap[K] {
+  const el = document.createElementNS(SVG_NS, tag);
+  for (const [k, v] of Object.entries(attrs)) el.setAttribute(k, String(v));
+  return el;
+}
+
+/** Inline, important styles: a page rule like `* { all: unset !important }` cannot beat them. */
+export function forceStyle(el: HTMLElement, styles: Record<string, string>): void {
+  for (const [k, v] of Object.entries(styles)) el.style.setProperty(k, v, 'important');
+}

@@ -1,0 +1,45 @@
+import { Chooser } from './chooser';
+import { MeasureSession } from './session';
+import { findVideos, foreignFrameOrigins } from './videos';
+
+/*
+ * The overlay's entry, injected on demand. Content scripts share one isolated world per page, so a
+ * second injection finds the registry the first one left and does not mount again: it focuses the
+ * open session, or offers the chooser when no session is open.
+ */
+interface Registry {
+  sessions: Map<HTMLVideoElement, MeasureSession>;
+  chooser: Chooser | null;
+  run(): void;
+}
+
+const KEY = Symbol.for('clip-caliper.overlay');
+const g = globalThis as unknown as Record<symbol, Registry | undefined>;
+
+function mount(reg: Registry, video: HTMLVideoElement, index: number): void {
+  if (reg.sessions.has(video)) {
+    reg.sessions.get(video)!.focus();
+    return;
+  }
+  reg.sessions.set(video, new MeasureSession(video, index, (s) => reg.sessions.delete(s.video)));
+}
+
+function run(this: Registry): void {
+  const open = [...this.sessions.values()];
+  if (open.length > 0) {
+    open[0]!.focus();
+    return;
+  }
+  if (this.chooser?.alive) return;
+  const videos = findVideos();
+  const foreign = foreignFrameOrigins();
+  if (videos.length === 1 && foreign.length === 0) {
+    mount(this, videos[0]!, 0);
+    return;
+  }
+  this.chooser = new Chooser(videos, foreign, (v) => mount(this, v, videos.indexOf(v)));
+}
+
+const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run };
+g[KEY] = reg;
+reg.run();

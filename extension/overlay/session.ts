@@ -1,0 +1,715 @@
+import { caseIdFor, stripFragment } from '../../src/case/ids';
+import { POINTS_PER_KIND, type CaseRecord, type Mark, type MarkKind, type Point, type VideoInfo } from '../../src/case/schema';
+import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from '../../src/engine/display';
+import { snapAlong } from '../../src/engine/snap';
+import { validateCase } from '../../src/case/validate';
+import { caseKey } from '../../src/case/schema';
+import { browser, send } from '../shared/browser';
+import { DEFAULT_EDGE_SIGMA_PX, liveAssumptionsFor, type LiveAssumptions } from './assumptions';
+import { h, svg } from './dom';
+import { degrees, distanceEstimate, speedEstimate, timestamp } from './format';
+import { OverlayHost } from './host';
+import { FramePixels } from './pixels';
+import { cameraFrame, liveFigures, marksAt } from './readout';
+import { OVERLAY_CSS } from './styles';
+
+interface ToolDef {
+  kind: MarkKind;
+  label: string;
+  key: string;
+  hint: string;
+}
+
+/* Our own names for the marking tools; the keys 1-5 choose them. */
+const TOOLS: readonly ToolDef[] = [
+  { kind: 'object-span', label: 'Object ends', key: '1', hint: 'Drag from one end of the object to the other.' },
+  { kind: 'landmark-span', label: 'Landmark', key: '2', hint: 'Drag across the landmark the object seems pinned over.' },
+  { kind: 'frame-edges', label: 'Picture edges', key: '3', hint: 'Drag from the left edge of the recorded picture to its right edge (for bars or crops).' },
+  { kind: 'lane-dash', label: 'Lane dash', key: '4', hint: 'Click where a dash meets your reference each time one passes.' },
+  { kind: 'object-centre', label: 'Object centre', key: '5', hint: 'Click the centre of the object (clips from a fixed camera).' },
+];
+
+const COLOURS: Record<MarkKind, string> = {
+  'object-span': 'var(--mark-object, #e8590c)',
+  'landmark-span': 'var(--mark-landmark, #2b8a3e)',
+  'frame-edges': 'var(--mark-frame, #7048e8)',
+  'lane-dash': 'var(--mark-lane, #0b7285)',
+  'object-centre': 'var(--mark-object, #e8590c)',
+};
+
+interface Draft {
+  kind: MarkKind;
+  t: number;
+  points: Point[];
+}
+
+/**
+ * One measuring session over one video: its host, its case, the marks, the tools. Every mark is
+ * saved through the background at once; nudges are saved a moment after the last key, and any
+ * pending save is flushed on close.
+ */
+export class MeasureSession {
+  private readonly host: OverlayHost;
+  private readonly pixels: FramePixels;
+  private assumptions: LiveAssumptions = liveAssumptionsFor(undefined);
+  private caseId = '';
+  private record: CaseRecord | null = null;
+  private tool: MarkKind = 'object-span';
+  private dimension: Mark['dimension'] = 'wingspan';
+  private draft: Draft | null = null;
+  private selected: { markId: string; end: number } | null = null;
+  private cursor: Point | null = null;
+  private mapping: Mapping | null = null;
+  private pendingSave: number | undefined;
+  private frameRequested = false;
+  private src = '';
+
+  // elements
+  private readonly surface: HTMLDivElement;
+  private readonly layer: SVGSVGElement;
+  private readonly panel: HTMLDivElement;
+  private readonly readoutEl: HTMLDivElement;
+  private readonly noticeEl: HTMLDivElement;
+  private readonly live: HTMLDivElement;
+  private readonly magnifier: HTMLDivElement;
+  private readonly magCanvas: HTMLCanvasElement;
+  private readonly toolButtons = new Map<MarkKind, HTMLButtonElement>();
+
+  constructor(
+    readonly video: HTMLVideoElement,
+    private readonly index: number,
+    private readonly onClosed: (s: MeasureSession) => void,
+  ) {
+    this.host = new OverlayHost(video);
+    this.pixels = new FramePixels(video);
+    const root = this.host.root;
+    root.append(h('style', {}, OVERLAY_CSS));
+
+    this.layer = svg('svg', { 'aria-hidden': 'true' }) as SVGSVGElement;
+    this.surface = h('div', {
+      class: 'surface',
+      tabindex: 0,
+      role: 'application',
+      'aria-label': 'Measuring surface. Keys 1 to 5 choose a tool; arrow keys move the cursor or the selected end (Shift 10 px, Alt 0.1 px); Enter places a point; Tab switches ends; S snaps; Delete removes; H hides the panel; Escape closes.',
+    });
+    this.surface.append(this.layer);
+    this.magCanvas = h('canvas', { width: 32, height: 32 });
+    this.magnifier = h('div', { class: 'magnifier' }, this.magCanvas);
+
+    const tools = h('div', { class: 'row tools', role: 'toolbar', 'aria-label': 'Marking tools' });
+    for (const t of TOOLS) {
+      const b = h('button', { type: 'button', 'aria-pressed': t.kind === this.tool ? 'true' : 'false', title: `${t.hint} (key ${t.key})`, 'data-kind': t.kind }, `${t.key} ${t.label}`);
+      b.addEventListener('click', () => this.chooseTool(t.kind), { signal: this.host.signal });
+      this.toolButtons.set(t.kind, b);
+      tools.append(b);
+    }
+    const dim = h('select', { 'aria-label': 'Dimension marked' }, h('option', { value: 'wingspan' }, 'wingspan'), h('option', { value: 'length' }, 'length'));
+    dim.addEventListener('change', () => (this.dimension = dim.value as Mark['dimension']), { signal: this.host.signal });
+    const close = h('button', { type: 'button', class: 'close', title: 'Close the overlay (Escape)' }, 'Close');
+    close.addEventListener('click', () => void this.close(), { signal: this.host.signal });
+    tools.append(dim, close);
+
+    this.readoutEl = h('div', { class: 'readout', 'data-testid': 'readout' });
+    this.noticeEl = h('div', { class: 'notice', 'data-testid': 'notice' });
+    this.live = h('div', { class: 'sr', 'aria-live': 'polite', 'data-testid': 'live' });
+    this.panel = h(
+      'div',
+      { class: 'panel', role: 'dialog', 'aria-label': 'Clip Caliper measuring overlay' },
+      tools,
+      this.readoutEl,
+      this.noticeEl,
+      h('div', { class: 'caution' }, 'Estimates from a picture, not evidence. Never use this or film while driving.'),
+      this.live,
+    );
+    root.append(this.surface, this.magnifier, this.panel);
+    this.host.placed = () => {
+      this.placePanel();
+      this.redraw();
+    };
+    this.wire();
+    this.describeVideo();
+    void this.openCase();
+    this.surface.focus();
+  }
+
+  /* ----------------------------------------------------------------------------------------- */
+
+  private wire(): void {
+    const signal = this.host.signal;
+    const s = this.surface;
+    s.addEventListener('pointerdown', (e) => this.pointerDown(e), { signal });
+    s.addEventListener('pointermove', (e) => this.pointerMove(e), { signal });
+    s.addEventListener('pointerup', (e) => this.pointerUp(e), { signal });
+    s.addEventListener('pointerleave', () => (this.magnifier.style.display = 'none'), { signal });
+    this.host.keys = (e) => this.key(e);
+    const v = this.video;
+    v.addEventListener('seeked', () => this.redraw(), { signal });
+    v.addEventListener('loadedmetadata', () => this.sourceChanged(), { signal });
+    v.addEventListener('emptied', () => this.sourceChanged(), { signal });
+    // the popup edits assumptions (and another tab may add marks): follow the stored case
+    const onStored = (changes: Record<string, { newValue?: unknown }>, area: string) => {
+      if (area !== 'local' || !this.caseId) return;
+      const change = changes[caseKey(this.caseId)];
+      if (!change?.newValue) return;
+      try {
+        this.adopt(validateCase(change.newValue));
+      } catch {
+        // a record that fails validation is not shown; the background reports it
+      }
+    };
+    browser.storage.onChanged.addListener(onStored);
+    signal.addEventListener('abort', () => browser.storage.onChanged.removeListener(onStored));
+    // a video removed from the page ends its session
+    const mo = new MutationObserver(() => {
+      if (!v.isConnected) void this.close();
+    });
+    mo.observe(v.ownerDocument.documentElement, { childList: true, subtree: true });
+    signal.addEventListener('abort', () => mo.disconnect());
+  }
+
+  private videoInfo(): VideoInfo {
+    const v = this.video;
+    const doc = v.ownerDocument;
+    return {
+      pageUrl: stripFragment(doc.location.href),
+      pageTitle: doc.title.slice(0, 2000),
+      src: v.currentSrc.startsWith('blob:') ? '' : v.currentSrc,
+      width: v.videoWidth,
+      height: v.videoHeight,
+      duration: Number.isFinite(v.duration) ? v.duration : null,
+    };
+  }
+
+  private async openCase(): Promise<void> {
+    const v = this.video;
+    if (v.videoWidth === 0) {
+      this.notice('Waiting for the video to load its first frame…');
+      return;
+    }
+    this.src = v.currentSrc;
+    this.caseId = caseIdFor(v.ownerDocument.location.href, v.currentSrc.startsWith('blob:') ? '' : v.currentSrc, this.index);
+    try {
+      this.adopt(await send('case/open', { caseId: this.caseId, video: this.videoInfo() }));
+      this.describeVideo();
+      this.redraw();
+      const n = this.record!.marks.length;
+      this.say(`Overlay ready. ${n} saved mark${n === 1 ? '' : 's'} for this video.`);
+    } catch (err) {
+      this.notice(`Could not open this video's case: ${(err as Error).message}`);
+    }
+  }
+
+  /** Takes a stored version of the case, keeping a nudge that is not saved yet. */
+  private adopt(c: CaseRecord): void {
+    if (this.pendingSave !== undefined && this.record && this.selected) {
+      const local = this.record.marks.find((m) => m.id === this.selected!.markId);
+      if (local) c = { ...c, marks: c.marks.some((m) => m.id === local.id) ? c.marks.map((m) => (m.id === local.id ? local : m)) : [...c.marks, local] };
+    }
+    this.record = c;
+    this.assumptions = liveAssumptionsFor(c.assumptions);
+    this.redraw();
+  }
+
+  private sourceChanged(): void {
+    if (this.video.currentSrc === this.src) return;
+    this.flush();
+    this.record = null;
+    this.draft = null;
+    this.selected = null;
+    this.say('The video changed: its marks are kept under a case of its own.');
+    void this.openCase();
+  }
+
+  private describeVideo(): void {
+    const v = this.video;
+    const notes: string[] = [];
+    if (!Number.isFinite(v.duration)) notes.push('Live stream: marks keep the playback time.');
+    if (v.mediaKeys) notes.push('Encrypted video: its pixels are hidden, so snapping and the magnifier are off; marking still works.');
+    if (!this.pixels.readable) notes.push('This video’s pixels cannot be read here (another site, no permission): snapping is off.');
+    this.notice(notes.join(' '));
+  }
+
+  /**
+   * The panel must not cover the picture being measured: below the video when the viewport has
+   * room, else above it, else inside its top-left corner.
+   */
+  private placePanel(): void {
+    const r = this.video.getBoundingClientRect();
+    const need = this.panel.offsetHeight + 8;
+    const view = this.video.ownerDocument.defaultView ?? window;
+    const where = view.innerHeight - r.bottom >= need ? 'below' : r.top >= need ? 'above' : 'inside';
+    if (this.panel.dataset.where !== where) this.panel.dataset.where = where;
+  }
+
+  /* ---------------------------------------------------------------------------------------- */
+  /* Geometry                                                                                  */
+
+  private currentMapping(): Mapping | null {
+    const v = this.video;
+    if (v.videoWidth === 0) return null;
+    const cs = getComputedStyle(v);
+    const px = (p: string) => parseFloat(cs.getPropertyValue(p)) || 0;
+    try {
+      this.mapping = mappingFromLayout({
+        rect: v.getBoundingClientRect(),
+        offsetWidth: v.offsetWidth,
+        offsetHeight: v.offsetHeight,
+        border: { left: px('border-left-width'), top: px('border-top-width'), right: px('border-right-width'), bottom: px('border-bottom-width') },
+        padding: { left: px('padding-left'), top: px('padding-top'), right: px('padding-right'), bottom: px('padding-bottom') },
+        videoWidth: v.videoWidth,
+        videoHeight: v.videoHeight,
+        objectFit: cs.objectFit,
+        objectPosition: cs.objectPosition,
+      });
+    } catch {
+      this.mapping = null;
+    }
+    return this.mapping;
+  }
+
+  private toIntrinsic(e: PointerEvent): Point | null {
+    const m = this.currentMapping();
+    if (!m) return null;
+    return cssToIntrinsic(e.clientX, e.clientY, m);
+  }
+
+  /** Intrinsic point to the host's local CSS coordinates (for drawing). */
+  private toLocal(p: Point, m: Mapping, hostRect: DOMRect): { x: number; y: number } {
+    const c = intrinsicToCss(p.x, p.y, m);
+    return { x: c.x - hostRect.left, y: c.y - hostRect.top };
+  }
+
+  private mappingRecord(): Mark['mapping'] {
+    const m = this.mapping;
+    const cs = getComputedStyle(this.video);
+    return {
+      objectFit: cs.objectFit,
+      objectPosition: cs.objectPosition,
+      picture: m ? { ...m.picture } : { x: 0, y: 0, width: 0, height: 0 },
+      scale: m ? m.scaleX : 1,
+      devicePixelRatio: window.devicePixelRatio,
+    };
+  }
+
+  /* ---------------------------------------------------------------------------------------- */
+  /* Pointer                                                                                   */
+
+  private startDraft(p: Point): void {
+    const v = this.video;
+    // marks are taken on a paused frame
+    if (!v.paused) v.pause();
+    this.draft = { kind: this.tool, t: v.currentTime, points: [p] };
+    if (POINTS_PER_KIND[this.tool] === 1) void this.commitDraft();
+  }
+
+  private pointerDown(e: PointerEvent): void {
+    if (e.button !== 0 || !this.record) return;
+    const p = this.toIntrinsic(e);
+    if (!p) return;
+    e.preventDefault();
+    this.surface.focus();
+    this.surface.setPointerCapture(e.pointerId);
+    this.cursor = p;
+    this.startDraft(p);
+    this.redraw();
+  }
+
+  private pointerMove(e: PointerEvent): void {
+    const p = this.toIntrinsic(e);
+    if (!p) return;
+    this.cursor = p;
+    if (this.draft && this.draft.points.length >= 1 && POINTS_PER_KIND[this.draft.kind] === 2) {
+      this.draft.points[1] = p;
+    }
+    this.showMagnifier(e);
+    this.requestRedraw();
+  }
+
+  private pointerUp(e: PointerEvent): void {
+    if (!this.draft || POINTS_PER_KIND[this.draft.kind] !== 2) return;
+    const p = this.toIntrinsic(e);
+    if (p) this.draft.points[1] = p;
+    const [a, b] = this.draft.points;
+    if (!a || !b || Math.hypot(b.x - a.x, b.y - a.y) < 1) {
+      // a click, not a drag: the next click or Enter places the second end
+      this.draft.points = [a ?? p!];
+      this.say('First end placed. Click or press Enter at the second end.');
+      return;
+    }
+    void this.commitDraft();
+  }
+
+  /** Rendering is coalesced to one per display frame, however fast the pointer moves. */
+  private requestRedraw(): void {
+    if (this.frameRequested) return;
+    this.frameRequested = true;
+    requestAnimationFrame(() => {
+      this.frameRequested = false;
+      this.redraw();
+    });
+  }
+
+  private showMagnifier(e: PointerEvent): void {
+    const m = this.mapping;
+    const v = this.video;
+    if (!m || v.mediaKeys || !this.cursor) {
+      this.magnifier.style.display = 'none';
+      return;
+    }
+    // 16 intrinsic pixels across the 128 px lens: 8x, at the video's own resolution
+    const size = 16;
+    const ctx = this.magCanvas.getContext('2d');
+    if (!ctx) return;
+    ctx.imageSmoothingEnabled = false;
+    ctx.clearRect(0, 0, 32, 32);
+    ctx.drawImage(v, this.cursor.x - size / 2, this.cursor.y - size / 2, size, size, 0, 0, 32, 32);
+    const r = this.host.el.getBoundingClientRect();
+    this.magnifier.style.display = 'block';
+    this.magnifier.style.left = `${e.clientX - r.left + 24}px`;
+    this.magnifier.style.top = `${e.clientY - r.top + 24}px`;
+  }
+
+  /* ---------------------------------------------------------------------------------------- */
+  /* Keyboard                                                                                  */
+
+  private key(e: KeyboardEvent): void {
+    // seen at the window, so e.target is the host: the element inside is first on the path
+    const target = e.composedPath()[0];
+    const onSurface = target === this.surface;
+    const tool = TOOLS.find((t) => t.key === e.key);
+    if (tool && !e.ctrlKey && !e.metaKey && !e.altKey) {
+      this.chooseTool(tool.kind);
+      e.preventDefault();
+      return;
+    }
+    const step = e.altKey ? 0.1 : e.shiftKey ? 10 : 1;
+    const arrows: Record<string, [number, number]> = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
+    const d = arrows[e.key];
+    if (d && onSurface) {
+      e.preventDefault();
+      this.nudge(d[0], d[1]);
+      return;
+    }
+    switch (e.key) {
+      case 'Escape':
+        e.preventDefault();
+        if (this.draft) {
+          this.draft = null;
+          this.say('Mark cancelled.');
+          this.redraw();
+        } else if (this.selected) {
+          this.selected = null;
+          this.redraw();
+        } else void this.close();
+        return;
+      case 'Enter':
+      case ' ':
+        if (!onSurface) return;
+        e.preventDefault();
+        this.placeAtCursor();
+        return;
+      case 'Tab':
+        if (this.selected) {
+          e.preventDefault();
+          this.cycleSelection(e.shiftKey ? -1 : 1);
+        }
+        return;
+      case 'h':
+      case 'H':
+        e.preventDefault();
+        this.togglePanel();
+        return;
+      case 's':
+      case 'S':
+        if (!onSurface) return;
+        e.preventDefault();
+        this.snapSelected();
+        return;
+      case 'Delete':
+      case 'Backspace':
+        if (!onSurface) return;
+        e.preventDefault();
+        void this.removeSelected();
+        return;
+    }
+  }
+
+  /** Hides the panel (it may sit on the picture when the page leaves no room around the video). */
+  private togglePanel(): void {
+    const hidden = this.panel.hidden;
+    this.panel.hidden = !hidden;
+    this.say(hidden ? 'Panel shown.' : 'Panel hidden. Press H to show it again.');
+  }
+
+  private chooseTool(kind: MarkKind): void {
+    this.tool = kind;
+    this.draft = null;
+    for (const [k, b] of this.toolButtons) b.setAttribute('aria-pressed', k === kind ? 'true' : 'false');
+    const t = TOOLS.find((x) => x.kind === kind)!;
+    this.say(`${t.label}: ${t.hint}`);
+    this.redraw();
+  }
+
+  private placeAtCursor(): void {
+    if (!this.record) return;
+    const v = this.video;
+    this.cursor ??= { x: v.videoWidth / 2, y: v.videoHeight / 2 };
+    const p = { ...this.cursor };
+    if (!this.draft) {
+      this.startDraft(p);
+      if (this.draft) this.say('First end placed. Move with the arrow keys, then press Enter at the second end.');
+    } else {
+      this.draft.points[1] = p;
+      void this.commitDraft();
+    }
+    this.redraw();
+  }
+
+  private nudge(dx: number, dy: number): void {
+    const m = this.selectedMark();
+    if (m && this.selected) {
+      const points = m.points.map((p, i) => (i === this.selected!.end ? { x: p.x + dx, y: p.y + dy } : p));
+      this.replaceMark({ ...m, points }, true);
+      const p = points[this.selected.end]!;
+      this.say(`End ${this.selected.end + 1} at ${p.x.toFixed(1)}, ${p.y.toFixed(1)} px.`);
+      return;
+    }
+    const v = this.video;
+    const c = this.cursor ?? { x: v.videoWidth / 2, y: v.videoHeight / 2 };
+    this.cursor = { x: c.x + dx, y: c.y + dy };
+    if (this.draft && POINTS_PER_KIND[this.draft.kind] === 2) this.draft.points[1] = this.cursor;
+    this.redraw();
+  }
+
+  private cycleSelection(dir: number): void {
+    const here = this.record ? marksAt(this.record.marks, this.video.currentTime) : [];
+    const ends = here.flatMap((m) => m.points.map((_, end) => ({ markId: m.id, end })));
+    if (ends.length === 0) return;
+    const i = ends.findIndex((x) => x.markId === this.selected?.markId && x.end === this.selected?.end);
+    this.selected = ends[(i + dir + ends.length) % ends.length]!;
+    this.say(`Selected end ${this.selected.end + 1} of a ${this.selectedMark()?.kind.replace('-', ' ')} mark.`);
+    this.redraw();
+  }
+
+  private selectedMark(): Mark | undefined {
+    return this.record?.marks.find((m) => m.id === this.selected?.markId);
+  }
+
+  /* ---------------------------------------------------------------------------------------- */
+  /* Marks                                                                                     */
+
+  private async commitDraft(): Promise<void> {
+    const d = this.draft;
+    if (!d || !this.record) return;
+    this.draft = null;
+    let points = d.points.slice(0, POINTS_PER_KIND[d.kind]);
+    let sigma = DEFAULT_EDGE_SIGMA_PX;
+    if (points.length === 2 && (d.kind === 'object-span' || d.kind === 'landmark-span')) {
+      const snapped = this.snapSpan(points as [Point, Point]);
+      if (snapped) ({ points, sigma } = snapped);
+    }
+    const mark: Mark = {
+      id: `m${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`,
+      kind: d.kind,
+      t: d.t,
+      points,
+      edgeSigmaPx: sigma,
+      ...(d.kind === 'object-span' ? { dimension: this.dimension } : {}),
+      mapping: this.mappingRecord(),
+      createdAt: Date.now(),
+    };
+    this.selected = { markId: mark.id, end: points.length - 1 };
+    await this.replaceMark(mark, false);
+  }
+
+  /** Snaps both ends of a span to the edges under them, along the span; null if nothing to snap to. */
+  private snapSpan([a, b]: [Point, Point]): { points: Point[]; sigma: number } | null {
+    const img = this.pixels.get();
+    if (!img) {
+      this.describeVideo();
+      return null;
+    }
+    const len = Math.hypot(b.x - a.x, b.y - a.y);
+    const ux = (b.x - a.x) / len;
+    const uy = (b.y - a.y) / len;
+    const radius = Math.min(6, len / 3);
+    const sa = snapAlong(img, a.x, a.y, ux, uy, radius);
+    const sb = snapAlong(img, b.x, b.y, ux, uy, radius);
+    if (!sa && !sb) return null;
+    return {
+      points: [sa ? { x: sa.x, y: sa.y } : a, sb ? { x: sb.x, y: sb.y } : b],
+      sigma: Math.max(sa?.sigmaPx ?? DEFAULT_EDGE_SIGMA_PX, sb?.sigmaPx ?? DEFAULT_EDGE_SIGMA_PX),
+    };
+  }
+
+  private snapSelected(): void {
+    const m = this.selectedMark();
+    if (!m || m.points.length !== 2 || !this.selected) return;
+    const img = this.pixels.get();
+    if (!img) {
+      this.say('Snapping is off for this video.');
+      return;
+    }
+    const [a, b] = m.points as [Point, Point];
+    const len = Math.hypot(b.x - a.x, b.y - a.y);
+    const p = m.points[this.selected.end]!;
+    const s = snapAlong(img, p.x, p.y, (b.x - a.x) / len, (b.y - a.y) / len, 6);
+    if (!s) {
+      this.say('No clear edge under this end.');
+      return;
+    }
+    const points = m.points.map((q, i) => (i === this.selected!.end ? { x: s.x, y: s.y } : q));
+    this.replaceMark({ ...m, points, edgeSigmaPx: Math.max(m.edgeSigmaPx, s.sigmaPx) }, false);
+    this.say(`Snapped to the edge, uncertainty ${s.sigmaPx.toFixed(2)} px.`);
+  }
+
+  private async removeSelected(): Promise<void> {
+    const m = this.selectedMark();
+    if (!m) return;
+    this.selected = null;
+    try {
+      this.adopt(await send('mark/remove', { caseId: this.caseId, markId: m.id }));
+      this.say('Mark removed.');
+    } catch (err) {
+      this.notice(`Could not remove the mark: ${(err as Error).message}`);
+    }
+    this.redraw();
+  }
+
+  /** Shows the mark at once and saves it (debounced for a run of nudges). */
+  private replaceMark(mark: Mark, debounce: boolean): Promise<void> {
+    if (!this.record) return Promise.resolve();
+    const i = this.record.marks.findIndex((m) => m.id === mark.id);
+    const marks = i < 0 ? [...this.record.marks, mark] : this.record.marks.map((m) => (m.id === mark.id ? mark : m));
+    this.record = { ...this.record, marks };
+    this.redraw();
+    window.clearTimeout(this.pendingSave);
+    this.pendingSave = undefined;
+    if (debounce) {
+      this.pendingSave = window.setTimeout(() => void this.save(mark.id), 250);
+      return Promise.resolve();
+    }
+    return this.save(mark.id);
+  }
+
+  private async save(markId: string): Promise<void> {
+    this.pendingSave = undefined;
+    const mark = this.record?.marks.find((m) => m.id === markId);
+    if (!mark) return;
+    try {
+      this.adopt(await send('mark/put', { caseId: this.caseId, mark }));
+      this.announceFigures(mark);
+    } catch (err) {
+      this.notice(`Not saved: ${(err as Error).message}`);
+    }
+    this.redraw();
+  }
+
+  /** Writes a pending nudge now (closing, or the video changing). */
+  private flush(): void {
+    if (this.pendingSave === undefined) return;
+    window.clearTimeout(this.pendingSave);
+    const sel = this.selected;
+    if (sel) void this.save(sel.markId);
+  }
+
+  /* ---------------------------------------------------------------------------------------- */
+  /* Drawing and readout                                                                       */
+
+  private redraw(): void {
+    const m = this.currentMapping();
+    const layer = this.layer;
+    layer.replaceChildren();
+    if (!m || !this.record) return;
+    const r = this.host.el.getBoundingClientRect();
+    const t = this.video.currentTime;
+    const here = marksAt(this.record.marks, t);
+    const frame = cameraFrame(this.record.marks, this.video.videoWidth, this.video.videoHeight);
+    for (const mark of this.record.marks) {
+      const current = here.includes(mark) || mark.kind === 'frame-edges';
+      this.drawMark(mark.kind, mark.points, m, r, current ? 1 : 0.25, mark.id);
+    }
+    if (this.draft) this.drawMark(this.draft.kind, this.draft.points, m, r, 1, 'draft');
+    if (this.cursor && !this.draft) {
+      const c = this.toLocal(this.cursor, m, r);
+      layer.append(svg('circle', { cx: c.x, cy: c.y, r: 3, fill: 'none', stroke: '#fff', 'stroke-width': 1, 'data-testid': 'cursor' }));
+    }
+    this.updateReadout(here, frame);
+  }
+
+  private drawMark(kind: MarkKind, points: Point[], m: Mapping, r: DOMRect, opacity: number, id: string): void {
+    const colour = COLOURS[kind];
+    const g = svg('g', { opacity, 'data-mark': id, 'data-kind': kind });
+    const local = points.map((p) => this.toLocal(p, m, r));
+    if (kind === 'frame-edges') {
+      for (const p of local) g.append(svg('line', { x1: p.x, y1: 0, x2: p.x, y2: r.height, stroke: colour, 'stroke-width': 2, 'stroke-dasharray': '6 4' }));
+    } else if (local.length === 2) {
+      const [a, b] = local as [{ x: number; y: number }, { x: number; y: number }];
+      g.append(svg('line', { x1: a.x, y1: a.y, x2: b.x, y2: b.y, stroke: '#000', 'stroke-width': 4, 'stroke-opacity': 0.5 }));
+      g.append(svg('line', { x1: a.x, y1: a.y, x2: b.x, y2: b.y, stroke: colour, 'stroke-width': 2 }));
+    }
+    local.forEach((p, end) => {
+      const sel = this.selected?.markId === id && this.selected.end === end;
+      g.append(svg('circle', { cx: p.x, cy: p.y, r: sel ? 5 : 3.5, fill: sel ? '#fff' : colour, stroke: '#000', 'stroke-width': 1 }));
+    });
+    this.layer.append(g);
+  }
+
+  private updateReadout(here: Mark[], frame: ReturnType<typeof cameraFrame>): void {
+    const a = this.assumptions;
+    const draftSpan = this.draft && this.draft.kind === 'object-span' && this.draft.points.length === 2 ? this.draft : null;
+    const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: DEFAULT_EDGE_SIGMA_PX } : here.find((x) => x.kind === 'object-span');
+    const lm = here.find((x) => x.kind === 'landmark-span') ?? null;
+    const t = this.video.currentTime;
+    const head = h('div', { class: 'muted' }, `Frame ${timestamp(t)} · ${this.record?.marks.length ?? 0} marks saved`);
+    if (!obj) {
+      this.readoutEl.replaceChildren(head, h('div', {}, TOOLS.find((x) => x.kind === this.tool)!.hint));
+      return;
+    }
+    const f = liveFigures(obj, lm, frame, a);
+    if (!f) {
+      this.readoutEl.replaceChildren(head, h('div', {}, 'The object’s ends lie outside the camera picture: check the picture edges.'));
+      return;
+    }
+    const lines: (HTMLElement | string)[] = [
+      head,
+      h('div', { class: 'big', 'data-testid': 'range' }, `Range ${distanceEstimate(f.result.range)}`),
+      h('div', {}, `Span ${f.spanPx.toFixed(1)} px · angular size ${degrees(f.result.angularSize.median)}`),
+    ];
+    if (f.result.landmarkRange) lines.push(h('div', {}, `Landmark range ${distanceEstimate(f.result.landmarkRange)}`));
+    if (f.result.impliedSpeed) lines.push(h('div', {}, `Implied object speed ${speedEstimate(f.result.impliedSpeed)}`));
+    lines.push(h('div', { class: 'muted' }, `Assuming ${a.sizeLabel}, broadside; ${a.cameraLabel.toLowerCase()}. Set assumptions in the popup.`));
+    this.readoutEl.replaceChildren(...lines);
+  }
+
+  private announceFigures(mark: Mark): void {
+    if (mark.kind !== 'object-span' || !this.record) return;
+    const frame = cameraFrame(this.record.marks, this.video.videoWidth, this.video.videoHeight);
+    const f = liveFigures(mark, null, frame, this.assumptions);
+    if (f) this.say(`Object span ${f.spanPx.toFixed(1)} px, angular size ${degrees(f.result.angularSize.median)}, range ${distanceEstimate(f.result.range)}. Saved.`);
+    else this.say('Saved.');
+  }
+
+  private say(text: string): void {
+    // re-set so that a repeated message is announced again
+    this.live.textContent = '';
+    this.live.textContent = text;
+  }
+
+  private notice(text: string): void {
+    this.noticeEl.textContent = text;
+  }
+
+  /* ---------------------------------------------------------------------------------------- */
+
+  async close(): Promise<void> {
+    this.flush();
+    this.host.destroy();
+    this.onClosed(this);
+  }
+
+  /** For a second injection: bring the surface back into focus instead of mounting again. */
+  focus(): void {
+    this.surface.focus();
+  }
+}

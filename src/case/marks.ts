@@ -1,0 +1,28 @@
+import { SCHEMA_VERSION, type CaseAssumptions, type CaseRecord, type Mark, type VideoInfo } from './schema';
+
+/** A new, empty case for a video. */
+export function newCase(id: string, video: VideoInfo, toolVersion: string, now: number): CaseRecord {
+  return { schema: SCHEMA_VERSION, id, video, marks: [], notes: '', createdAt: now, updatedAt: now, toolVersion };
+}
+
+/** The case with a mark added, or replaced when one with the same id exists (a nudged end). Non-mutating. */
+export function upsertMark(c: CaseRecord, mark: Mark, now: number): CaseRecord {
+  const i = c.marks.findIndex((m) => m.id === mark.id);
+  const marks = i < 0 ? [...c.marks, mark] : c.marks.map((m, j) => (j === i ? mark : m));
+  return { ...c, marks, updatedAt: now };
+}
+
+/** The case without the mark of that id. Non-mutating. */
+export function removeMark(c: CaseRecord, markId: string, now: number): CaseRecord {
+  return { ...c, marks: c.marks.filter((m) => m.id !== markId), updatedAt: now };
+}
+
+/** The case's video details refreshed (title, duration learned later), keeping everything else. */
+export function withVideo(c: CaseRecord, video: VideoInfo, now: number): CaseRecord {
+  return { ...c, video, updatedAt: now };
+}
+
+/** The case with its assumptions set. Non-mutating. */
+export function withAssumptions(c: CaseRecord, assumptions: CaseAssumptions, now: number): CaseRecord {
+  return { ...c, assumptions, updatedAt: now };
+}

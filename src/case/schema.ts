@@ -1,0 +1,110 @@
+/**
+ * The case model: one measured video, its marks and the assumptions behind its figures. Stored one
+ * key per case (`case:<id>`), versioned so that later schema changes migrate in order (the case-log
+ * work adds migrations; version 1 is the first).
+ */
+export const SCHEMA_VERSION = 1;
+
+/** What a mark measures. */
+export type MarkKind =
+  /** the object's apparent span: two ends */
+  | 'object-span'
+  /** a landmark's span, for an object that seems pinned over it: two ends */
+  | 'landmark-span'
+  /** the camera frame's left and right edges inside the video (pillarbox, crop): two points */
+  | 'frame-edges'
+  /** a lane dash's leading edge passing the reference line: one point */
+  | 'lane-dash'
+  /** the object's centre, for fixed-camera clips: one point */
+  | 'object-centre';
+
+export const MARK_KINDS: readonly MarkKind[] = ['object-span', 'landmark-span', 'frame-edges', 'lane-dash', 'object-centre'];
+
+/** Points a kind takes. */
+export const POINTS_PER_KIND: Readonly<Record<MarkKind, number>> = {
+  'object-span': 2,
+  'landmark-span': 2,
+  'frame-edges': 2,
+  'lane-dash': 1,
+  'object-centre': 1,
+};
+
+export interface Point {
+  /** Intrinsic video pixels (videoWidth x videoHeight space), x right, y down. */
+  x: number;
+  y: number;
+}
+
+/** How CSS pixels were mapped to intrinsic pixels when the mark was made (for audit, not for maths). */
+export interface DisplayMappingRecord {
+  objectFit: string;
+  objectPosition: string;
+  /** Rendered picture rectangle in CSS px relative to the element's content box. */
+  picture: { x: number; y: number; width: number; height: number };
+  /** CSS transform scale of the element (1 when none). */
+  scale: number;
+  devicePixelRatio: number;
+}
+
+export interface Mark {
+  id: string;
+  kind: MarkKind;
+  /** video.currentTime when the mark was taken (the frame was paused). */
+  t: number;
+  points: Point[];
+  /** Standard deviation of each point along the span, pixels. */
+  edgeSigmaPx: number;
+  /** Which dimension of the object the span is (object spans only). */
+  dimension?: 'wingspan' | 'length' | 'height' | 'other';
+  /** Landmark identity, so several landmark marks can be told apart. */
+  landmarkId?: string;
+  mapping: DisplayMappingRecord;
+  /** Who marked it, if the user gave a name. */
+  by?: string;
+  createdAt: number;
+}
+
+export interface VideoInfo {
+  /** Page address (without its fragment) and title. */
+  pageUrl: string;
+  pageTitle: string;
+  /** The media's own address (currentSrc), or '' for a stream object. */
+  src: string;
+  width: number;
+  height: number;
+  /** Seconds; null for a live stream with no duration. */
+  duration: number | null;
+}
+
+/** A range a value is known to lie in, in the units its field names. */
+export interface Range {
+  lo: number;
+  hi: number;
+}
+
+/**
+ * The assumptions behind a case's figures, in the units a user gives them. Absent: the tool's
+ * defaults (a phone main camera, an aircraft of aerodrome code letter C, broadside).
+ */
+export interface CaseAssumptions {
+  cameraLabel: string;
+  hfovDeg: Range;
+  sizeLabel: string;
+  objectSizeM: Range;
+  aspectDeg: Range;
+  landmarkSizeM: Range;
+}
+
+export interface CaseRecord {
+  schema: number;
+  id: string;
+  video: VideoInfo;
+  marks: Mark[];
+  notes: string;
+  assumptions?: CaseAssumptions;
+  createdAt: number;
+  updatedAt: number;
+  toolVersion: string;
+}
+
+export const caseKey = (id: string) => `case:${id}`;

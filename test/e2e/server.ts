@@ -1,0 +1,49 @@
+import { createServer, type Server } from 'node:http';
+import { readFile } from 'node:fs/promises';
+import { extname, join, normalize, resolve } from 'node:path';
+
+/*
+ * A tiny static server for the browser tests: test pages at /, fixture clips at /clips/. It
+ * answers Range requests, because Chromium's media stack seeks with them.
+ */
+const TYPES: Record<string, string> = { '.html': 'text/html; charset=utf-8', '.webm': 'video/webm', '.mp4': 'video/mp4', '.json': 'application/json', '.js': 'text/javascript' };
+
+export interface TestServer {
+  port: number;
+  url(path: string, host?: '127.0.0.1' | 'localhost'): string;
+  close(): Promise<void>;
+}
+
+export async function startServer(): Promise<TestServer> {
+  const pages = resolve('test/e2e/pages');
+  const clips = resolve('test/fixtures/clips');
+  const server: Server = createServer(async (req, res) => {
+    try {
+      const path = decodeURIComponent(new URL(req.url ?? '/', 'http://x').pathname);
+      const [base, rel] = path.startsWith('/clips/') ? [clips, path.slice(7)] : [pages, path.slice(1) || 'plain.html'];
+      const file = normalize(join(base, rel));
+      if (!file.startsWith(base)) throw new Error('outside');
+      const body = await readFile(file);
+      const type = TYPES[extname(file)] ?? 'application/octet-stream';
+      const range = /bytes=(\d+)-(\d*)/.exec(req.headers.range ?? '');
+      if (range) {
+        const start = Number(range[1]);
+        const end = range[2] ? Math.min(Number(range[2]), body.length - 1) : body.length - 1;
+        res.writeHead(206, { 'content-type': type, 'accept-ranges': 'bytes', 'content-range': `bytes ${start}-${end}/${body.length}`, 'content-length': end - start + 1 });
+        res.end(body.subarray(start, end + 1));
+        return;
+      }
+      res.writeHead(200, { 'content-type': type, 'accept-ranges': 'bytes', 'content-length': body.length });
+      res.end(body);
+    } catch {
+      res.writeHead(404).end('not found');
+    }
+  });
+  await new Promise<void>((ok) => server.listen(0, '127.0.0.1', ok));
+  const port = (server.address() as { port: number }).port;
+  return {
+    port,
+    url: (path, host = '127.0.0.1') => `http://${host}:${port}${path}`,
+    close: () => new Promise((ok) => server.close(() => ok())),
+  };
+}

@@ -5,11 +5,13 @@ import { injectOverlay } from './inject';
 import { routeMessages } from './router';
 
 const MENU_ID = 'clip-caliper-measure-video';
+// when this worker instance started: a worker the browser stopped comes back as a new instance
+const STARTED_AT = Date.now();
 export const COMMAND_ID = 'measure-video';
 
 browser.runtime.onMessage.addListener(
   routeMessages({
-    'status/get': async () => ({ version: extensionVersion(), schema: SCHEMA_VERSION }),
+    'status/get': async () => ({ version: extensionVersion(), schema: SCHEMA_VERSION, startedAt: STARTED_AT }),
     'case/open': async ({ caseId, video }) => openCase(caseId, video, extensionVersion()),
     'case/get': async ({ caseId }) => readCase(caseId),
     'mark/put': async ({ caseId, mark }) => putMark(caseId, mark),
@@ -31,7 +33,3 @@ browser.commands.onCommand.addListener((command, tab) => {
   if (command === COMMAND_ID && tab?.id !== undefined) void injectOverlay(tab.id);
 });
 
-// The e2e build exposes the same injection to the browser tests, which cannot click the toolbar.
-if (import.meta.env.MODE === 'e2e') {
-  (globalThis as unknown as { __clipCaliperInject: typeof injectOverlay }).__clipCaliperInject = injectOverlay;
-}

@@ -7,7 +7,7 @@ import type { CaseAssumptions, CaseRecord, Mark, VideoInfo } from '../../src/cas
  */
 export interface RequestMap {
   /** Liveness and version, used by the popup's footer and by the browser tests. */
-  'status/get': { payload: Record<string, never>; reply: { version: string; schema: number } };
+  'status/get': { payload: Record<string, never>; reply: { version: string; schema: number; startedAt: number } };
   /** Open (or create) the case for a video; the overlay calls this when it mounts. */
   'case/open': { payload: { caseId: string; video: VideoInfo }; reply: CaseRecord };
   /** Read a case, or null if there is none. */

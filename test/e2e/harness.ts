@@ -37,11 +37,7 @@ export async function launchWithExtension(dist = resolve('dist'), options: { col
     ],
   });
   const worker = context.serviceWorkers()[0] ?? (await context.waitForEvent('serviceworker', { timeout: 30_000 }));
-  // the e2e build exposes the injection the toolbar would trigger; wait until the worker has run
-  if (dist.endsWith('dist-e2e')) await worker.evaluate(() => new Promise<void>((ok) => {
-    const check = () => ('__clipCaliperInject' in globalThis ? ok() : setTimeout(check, 20));
-    check();
-  }));
+
   const extensionId = new URL(worker.url()).host;
   return {
     context,
@@ -54,51 +50,65 @@ export async function launchWithExtension(dist = resolve('dist'), options: { col
   };
 }
 
-/** The e2e build: host permission for the local test origins, injection callable from the worker. */
+/** The e2e build: host permission for the local test origins, so injection works without a click. */
 export const E2E_DIST = resolve('dist-e2e');
 
-const stopped = new WeakSet<Worker>();
-
-/** The live service worker (a stopped one is restarted by waking it from an extension page). */
-export async function currentWorker(app: Loaded): Promise<Worker> {
-  for (const w of app.context.serviceWorkers()) if (!stopped.has(w)) w.once('close', () => stopped.add(w));
-  const live = app.context.serviceWorkers().find((w) => w.url().includes(app.extensionId) && !stopped.has(w));
-  if (live) return live;
-  const wake = await app.context.newPage();
-  const next = app.context.waitForEvent('serviceworker', { timeout: 30_000 });
-  await wake.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html`);
-  const w = await next;
-  w.once('close', () => stopped.add(w));
-  await wake.close();
-  return w;
+/*
+ * The tests reach the extension through one of its own pages, the way the popup does, not
+ * through Playwright's worker handle: once a service worker is stopped, that handle goes stale and
+ * hangs, while a runtime message simply wakes a fresh worker.
+ */
+const extPages = new WeakMap<Loaded, Promise<import('playwright-core').Page>>();
+function extensionPage(app: Loaded): Promise<import('playwright-core').Page> {
+  let p = extPages.get(app);
+  if (!p) {
+    p = (async () => {
+      const page = await app.context.newPage();
+      await page.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html`);
+      return page;
+    })();
+    extPages.set(app, p);
+  }
+  return p;
 }
 
-/** Calls the overlay up in the tab showing `url`, as the toolbar, command or context menu would. */
+/** Sends a request to the background from an extension page, exactly as the popup does. */
+export async function sendAsPopup(app: Loaded, type: string, payload: unknown): Promise<unknown> {
+  const page = await extensionPage(app);
+  const reply = (await page.evaluate(([t, p]) => chrome.runtime.sendMessage({ channel: 'clip-caliper', type: t, payload: p }), [type, payload] as const)) as
+    | { ok: true; value: unknown }
+    | { ok: false; error: string };
+  if (!reply.ok) throw new Error(reply.error);
+  return reply.value;
+}
+
+/** Calls the overlay up in the tab showing `url`, through the popup's own request. */
 export async function injectOverlay(app: Loaded, url: string): Promise<void> {
-  const worker = await currentWorker(app);
-  await worker.evaluate(async (u) => {
-    const tabs = await chrome.tabs.query({});
-    const tab = tabs.find((t) => t.url === u);
-    if (!tab?.id) throw new Error(`no tab for ${u}`);
-    await (globalThis as unknown as { __clipCaliperInject: (id: number) => Promise<boolean> }).__clipCaliperInject(tab.id);
-  }, url);
+  const page = await extensionPage(app);
+  const tabId = await page.evaluate(async (u) => (await chrome.tabs.query({})).find((t) => t.url === u)?.id, url);
+  if (tabId === undefined) throw new Error(`no tab for ${url}`);
+  await sendAsPopup(app, 'overlay/inject', { tabId });
 }
 
-/** Every stored case (the extension's local storage, read from its worker). */
+/** Every stored case (the extension's local storage, read from its own page). */
 export async function storedCases(app: Loaded): Promise<Record<string, unknown>> {
-  const worker = await currentWorker(app);
-  return worker.evaluate(async () => {
+  const page = await extensionPage(app);
+  return page.evaluate(async () => {
     const all = await chrome.storage.local.get(null);
     return Object.fromEntries(Object.entries(all).filter(([k]) => k.startsWith('case:')));
   });
 }
 
-/** Sends a request to the background from an extension page, exactly as the popup does. */
-export async function sendAsPopup(app: Loaded, type: string, payload: unknown): Promise<unknown> {
-  const page = await app.context.newPage();
-  await page.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html`);
-  const reply = await page.evaluate(([t, p]) => chrome.runtime.sendMessage({ channel: 'clip-caliper', type: t, payload: p }), [type, payload] as const);
-  await page.close();
-  if (!(reply as { ok: boolean }).ok) throw new Error(String((reply as { error: string }).error));
-  return (reply as { value: unknown }).value;
+/** Stops the extension's service worker (as the browser does when it is idle). */
+export async function stopServiceWorker(app: Loaded): Promise<void> {
+  const page = await extensionPage(app);
+  const cdp = await app.context.newCDPSession(page);
+  const running: string[] = [];
+  cdp.on('ServiceWorker.workerVersionUpdated', (e) => {
+    for (const v of e.versions) if (v.runningStatus === 'running' && v.scriptURL.includes(app.extensionId)) running.push(v.versionId);
+  });
+  await cdp.send('ServiceWorker.enable');
+  await new Promise((ok) => setTimeout(ok, 200));
+  for (const versionId of running) await cdp.send('ServiceWorker.stopWorker', { versionId });
+  await cdp.detach();
 }

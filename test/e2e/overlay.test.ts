@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Frame, Page } from 'playwright-core';
-import { currentWorker, E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, storedCases, type Loaded } from './harness';
+import { E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, stopServiceWorker, storedCases, type Loaded } from './harness';
 import { startServer, type TestServer } from './server';
 
 /*
@@ -272,12 +272,11 @@ describe('marking the fixture clip', () => {
 
     await page.reload();
     await videoReady(page);
-    const cdp = await app.context.newCDPSession(page);
-    await cdp.send('ServiceWorker.enable');
-    const old = await currentWorker(app);
-    const closed = new Promise((ok) => old.once('close', ok));
-    await cdp.send('ServiceWorker.stopAllWorkers');
-    await closed;
+    const before = (await sendAsPopup(app, 'status/get', {})) as { startedAt: number };
+    await new Promise((ok) => setTimeout(ok, 20));
+    await stopServiceWorker(app);
+    const after = (await sendAsPopup(app, 'status/get', {})) as { startedAt: number };
+    expect(after.startedAt).toBeGreaterThan(before.startedAt); // a fresh worker answered
     await injectOverlay(app, page.url()); // wakes a fresh worker
     await expect.poll(() => readout(page).textContent()).toContain('1 marks saved');
     expect((await caseFor(page.url())).marks).toHaveLength(1);

@@ -27,5 +27,7 @@ export default defineManifest(({ mode }) => ({
     },
   },
   permissions: ['activeTab', 'scripting', 'storage', 'contextMenus'],
+  // asked for one site at a time, only when the user wants a video inside a frame from that site
+  optional_host_permissions: ['http://*/*', 'https://*/*'],
   ...(mode === 'e2e' ? { host_permissions: ['http://127.0.0.1/*', 'http://localhost/*'] } : {}),
 }));

@@ -1,7 +1,7 @@
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { browser, extensionVersion, message } from '../shared/browser';
 import { deleteMark, openCase, putMark, readCase, setAssumptions } from './cases';
-import { injectOverlay } from './inject';
+import { foreignFrameOrigins, injectIntoOrigin, injectOverlay } from './inject';
 import { routeMessages } from './router';
 
 const MENU_ID = 'clip-caliper-measure-video';
@@ -18,6 +18,8 @@ browser.runtime.onMessage.addListener(
     'mark/remove': async ({ caseId, markId }) => deleteMark(caseId, markId),
     'case/assume': async ({ caseId, assumptions }) => setAssumptions(caseId, assumptions),
     'overlay/inject': async ({ tabId }) => ({ injected: await injectOverlay(tabId) }),
+    'frames/foreign': async ({ tabId }) => ({ origins: await foreignFrameOrigins(tabId) }),
+    'overlay/inject-origin': async ({ tabId, origin }) => ({ frames: await injectIntoOrigin(tabId, origin) }),
   }),
 );
 

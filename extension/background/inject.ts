@@ -15,3 +15,51 @@ export async function injectOverlay(tabId: number, frameId?: number): Promise<bo
   });
   return true;
 }
+
+/** Origins of the tab's frames that the top document cannot read (listed from the top frame). */
+export async function foreignFrameOrigins(tabId: number): Promise<string[]> {
+  const [result] = await browser.scripting.executeScript({
+    target: { tabId },
+    func: () => {
+      const origins = new Set<string>();
+      for (const f of document.querySelectorAll('iframe, frame')) {
+        const el = f as HTMLIFrameElement;
+        let readable = false;
+        try {
+          readable = !!el.contentDocument;
+        } catch {
+          readable = false;
+        }
+        if (!readable && el.src) {
+          try {
+            origins.add(new URL(el.src, document.baseURI).origin);
+          } catch {
+            // unnamed
+          }
+        }
+      }
+      return [...origins];
+    },
+  });
+  return (result?.result as string[] | undefined) ?? [];
+}
+
+/**
+ * Injects the overlay into the tab's frames of one origin that hold a video. The frames are listed
+ * by running a probe in every frame the extension may reach (executeScript reports each frame's
+ * id), so no navigation permission is needed.
+ */
+export async function injectIntoOrigin(tabId: number, origin: string): Promise<number> {
+  const probes = await browser.scripting.executeScript({
+    target: { tabId, allFrames: true },
+    func: () => ({ origin: location.origin, videos: document.querySelectorAll('video').length }),
+  });
+  const frameIds = probes
+    .filter((p) => {
+      const r = p.result as { origin: string; videos: number } | undefined;
+      return r && r.origin === origin && r.videos > 0 && p.frameId !== 0;
+    })
+    .map((p) => p.frameId);
+  for (const frameId of frameIds) await injectOverlay(tabId, frameId);
+  return frameIds.length;
+}

@@ -19,6 +19,10 @@ export interface RequestMap {
   'case/assume': { payload: { caseId: string; assumptions: CaseAssumptions }; reply: CaseRecord };
   /** The popup asks the background to call the overlay up in the current tab. */
   'overlay/inject': { payload: { tabId: number }; reply: { injected: boolean } };
+  /** Origins of frames in the tab that the top page cannot reach into (their videos need a grant). */
+  'frames/foreign': { payload: { tabId: number }; reply: { origins: string[] } };
+  /** After the user granted an origin: call the overlay up in that origin's frames that hold a video. */
+  'overlay/inject-origin': { payload: { tabId: number; origin: string }; reply: { frames: number } };
 }
 
 export type RequestType = keyof RequestMap;

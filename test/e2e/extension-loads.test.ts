@@ -22,6 +22,20 @@ describe('built extension in Chromium', () => {
     expect(manifest.manifest_version).toBe(3);
     expect(manifest.content_scripts ?? []).toEqual([]);
     expect(manifest.host_permissions ?? []).toEqual([]);
+    expect([...manifest.permissions!].sort()).toEqual(['activeTab', 'contextMenus', 'scripting', 'storage']);
+    // sites are asked for one at a time, only for a video inside a frame from another site
+    expect(manifest.optional_host_permissions).toEqual(['http://*/*', 'https://*/*']);
+  });
+
+  it('does not expose the overlay file to pages (no web-accessible resources)', async () => {
+    const manifest = (await app.worker.evaluate(() => chrome.runtime.getManifest())) as chrome.runtime.ManifestV3;
+    const listed = (manifest.web_accessible_resources ?? []).flatMap((w) => w.resources);
+    expect(listed.filter((r) => r.includes('overlay'))).toEqual([]);
+    // and the file the background injects is really there
+    const page = await app.context.newPage();
+    const res = await page.goto(`chrome-extension://${app.extensionId}/extension/overlay/index.js`);
+    expect(res?.ok()).toBe(true);
+    await page.close();
   });
 
   it('popup shows the cautions and the version the background reports', async () => {

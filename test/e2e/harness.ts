@@ -82,12 +82,17 @@ export async function sendAsPopup(app: Loaded, type: string, payload: unknown): 
   return reply.value;
 }
 
-/** Calls the overlay up in the tab showing `url`, through the popup's own request. */
-export async function injectOverlay(app: Loaded, url: string): Promise<void> {
+/** The id of the tab showing `url`. */
+export async function tabIdFor(app: Loaded, url: string): Promise<number> {
   const page = await extensionPage(app);
   const tabId = await page.evaluate(async (u) => (await chrome.tabs.query({})).find((t) => t.url === u)?.id, url);
   if (tabId === undefined) throw new Error(`no tab for ${url}`);
-  await sendAsPopup(app, 'overlay/inject', { tabId });
+  return tabId;
+}
+
+/** Calls the overlay up in the tab showing `url`, through the popup's own request. */
+export async function injectOverlay(app: Loaded, url: string): Promise<void> {
+  await sendAsPopup(app, 'overlay/inject', { tabId: await tabIdFor(app, url) });
 }
 
 /** Every stored case (the extension's local storage, read from its own page). */

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Frame, Page } from 'playwright-core';
-import { E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, stopServiceWorker, storedCases, type Loaded } from './harness';
+import { E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, stopServiceWorker, storedCases, tabIdFor, type Loaded } from './harness';
 import { startServer, type TestServer } from './server';
 
 /*
@@ -37,6 +37,8 @@ async function open(path: string): Promise<Page> {
   await page.goto(server.url(path));
   return page;
 }
+
+const tabIdOf = (url: string) => tabIdFor(app, url);
 
 async function videoReady(frame: Page | Frame, selector = 'video'): Promise<void> {
   await frame.waitForFunction((s) => {
@@ -125,6 +127,29 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
+  it('measures a video in a frame from another origin once that site is allowed', async () => {
+    // the e2e build holds the local origins already, standing in for the user's grant in the popup
+    const page = await open('/frame-cross.html');
+    const frame = await (async () => {
+      for (let i = 0; i < 50; i++) {
+        const f = page.frames().find((x) => x.url().startsWith(`http://localhost:${server.port}/plain.html`));
+        if (f) return f;
+        await page.waitForTimeout(100);
+      }
+      throw new Error('frame did not load');
+    })();
+    await videoReady(frame);
+    const extTab = await page.evaluate(() => location.href);
+    const { origins } = (await sendAsPopup(app, 'frames/foreign', { tabId: await tabIdOf(extTab) })) as { origins: string[] };
+    expect(origins).toEqual([`http://localhost:${server.port}`]);
+    const { frames } = (await sendAsPopup(app, 'overlay/inject-origin', { tabId: await tabIdOf(extTab), origin: origins[0] })) as { frames: number };
+    expect(frames).toBe(1);
+    await ready(frame);
+    expect(await overlays(frame)).toBe(1);
+    expect(await overlays(page)).toBe(0);
+    await page.close();
+  });
+
   it('closes on Escape and leaves nothing behind', async () => {
     const page = await open('/plain.html');
     await videoReady(page);
@@ -201,6 +226,57 @@ describe('CSS pixels to intrinsic pixels', () => {
       expect(Math.abs(m.points[0]!.x - targets[i]!.x)).toBeLessThanOrEqual(0.5);
       expect(Math.abs(m.points[0]!.y - targets[i]!.y)).toBeLessThanOrEqual(0.5);
     });
+    await page.close();
+  });
+});
+
+describe('fullscreen and pixel density', () => {
+  it('follows the video into fullscreen: in the top layer when the video itself is fullscreen', async () => {
+    const page = await open('/fullscreen.html?video');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    await page.click('#fs-video');
+    await expect.poll(() => page.evaluate(() => document.fullscreenElement?.tagName)).toBe('VIDEO');
+    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')!.matches(':popover-open'))).toBe(true);
+    const host = (await page.locator('clip-caliper-overlay').boundingBox())!;
+    const video = (await page.locator('video').boundingBox())!;
+    expect(Math.abs(host.width - video.width)).toBeLessThan(1);
+    expect(Math.abs(host.height - video.height)).toBeLessThan(1);
+    await page.evaluate(() => document.exitFullscreen());
+    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')!.matches(':popover-open'))).toBe(false);
+    await page.close();
+  });
+
+  it('moves inside a fullscreen container that holds the video', async () => {
+    const page = await open('/fullscreen.html?box');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    await page.click('#fs-box');
+    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.id)).toBe('box');
+    await page.evaluate(() => document.exitFullscreen());
+    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.tagName)).toBe('HTML');
+    await page.close();
+  });
+
+  it('maps within 0.5 px at a device pixel ratio of 2', async () => {
+    const page = await open('/plain.html?dpr2');
+    const cdp = await app.context.newCDPSession(page);
+    await cdp.send('Emulation.setDeviceMetricsOverride', { width: 1100, height: 800, deviceScaleFactor: 2, mobile: false });
+    await page.reload();
+    await videoReady(page);
+    expect(await page.evaluate(() => devicePixelRatio)).toBe(2);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('5');
+    await page.mouse.click(box.x + 333.25, box.y + 211.75);
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
+    const p = (await caseFor(page.url())).marks[0]!.points[0]!;
+    expect(Math.abs(p.x - 333.25)).toBeLessThanOrEqual(0.5);
+    expect(Math.abs(p.y - 211.75)).toBeLessThanOrEqual(0.5);
     await page.close();
   });
 });

@@ -94,7 +94,7 @@ export class MeasureSession {
     });
     this.surface.append(this.layer);
     this.magCanvas = h('canvas', { width: 32, height: 32 });
-    this.magnifier = h('div', { class: 'magnifier' }, this.magCanvas);
+    this.magnifier = h('div', { class: 'magnifier', 'aria-hidden': 'true' }, this.magCanvas, h('div', { class: 'cross-h' }), h('div', { class: 'cross-v' }));
 
     const tools = h('div', { class: 'row tools', role: 'toolbar', 'aria-label': 'Marking tools' });
     for (const t of TOOLS) {
@@ -678,7 +678,8 @@ export class MeasureSession {
     ];
     if (f.result.landmarkRange) lines.push(h('div', {}, `Landmark range ${distanceEstimate(f.result.landmarkRange)}`));
     if (f.result.impliedSpeed) lines.push(h('div', {}, `Implied object speed ${speedEstimate(f.result.impliedSpeed)}`));
-    lines.push(h('div', { class: 'muted' }, `Assuming ${a.sizeLabel}, broadside; ${a.cameraLabel.toLowerCase()}. Set assumptions in the popup.`));
+    const aspect = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9 ? 'broadside' : 'at the aspect given';
+    lines.push(h('div', { class: 'muted' }, `Assuming ${a.sizeLabel}, ${aspect}; ${a.cameraLabel.toLowerCase()}.`));
     this.readoutEl.replaceChildren(...lines);
   }
 

@@ -37,6 +37,8 @@ select { font: inherit; color: var(--fg); background: transparent; border: 1px s
   box-shadow: 0 0 0 1px #000, 0 2px 8px rgba(0,0,0,.4); pointer-events: none; overflow: hidden; display: none;
 }
 .magnifier canvas { width: 100%; height: 100%; image-rendering: pixelated; }
-.magnifier::after { content: ''; position: absolute; left: 50%; top: 50%; width: 1px; height: 1px; box-shadow: 0 0 0 6px rgba(255,0,0,.0), 0 -8px 0 0 red, 0 8px 0 0 red, -8px 0 0 0 red, 8px 0 0 0 red; }
+.magnifier .cross-h, .magnifier .cross-v { position: absolute; background: rgba(255, 40, 40, 0.85); }
+.magnifier .cross-h { left: 0; right: 0; top: calc(50% - 0.5px); height: 1px; }
+.magnifier .cross-v { top: 0; bottom: 0; left: calc(50% - 0.5px); width: 1px; }
 .sr { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
 `;

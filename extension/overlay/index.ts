@@ -38,6 +38,24 @@ function run(this: Registry): void {
     return;
   }
   this.chooser = new Chooser(videos, foreign, (v) => mount(this, v, videos.indexOf(v)));
+  followWhileChoosing(this, videos);
+}
+
+/** While the chooser is open, a video added or removed (a single-page site) rebuilds it. */
+function followWhileChoosing(reg: Registry, shown: HTMLVideoElement[]): void {
+  const mo = new MutationObserver(() => {
+    if (!reg.chooser?.alive) {
+      mo.disconnect();
+      return;
+    }
+    const now = findVideos();
+    if (now.length === shown.length && now.every((v, i) => v === shown[i])) return;
+    mo.disconnect();
+    reg.chooser.destroy();
+    reg.chooser = null;
+    reg.run();
+  });
+  mo.observe(document.documentElement, { childList: true, subtree: true });
 }
 
 const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run };

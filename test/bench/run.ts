@@ -20,16 +20,34 @@ print(engineBench());
 /*
  * The overlay part drives Chromium through playwright-core, which this bundle keeps external; but
  * the bundle runs from a temporary folder, where Node cannot resolve that package. So the overlay
- * bench runs in a child process from the project folder, through tsx: its Node side only drives
- * the browser, and its figures are all taken inside the page, so the loader's overhead is not in them.
+ * bench is bundled on its own here, its playwright-core import pinned to the project's copy by
+ * absolute URL. esbuild and that path are resolved from the project folder, not from this bundle.
  */
-const { spawnSync } = await import('node:child_process');
-const overlay = spawnSync(
-  process.execPath,
-  ['--import', 'tsx', '--input-type=module', '-e', "await (await import('./test/bench/overlay.ts')).overlayBench();"],
-  { stdio: 'inherit' },
-);
-if (overlay.status !== 0) {
-  console.log(`overlay benchmark did not finish (${overlay.error?.message ?? `exit ${overlay.status ?? overlay.signal}`})`);
-  process.exitCode = 1;
+{
+  const { createRequire } = await import('node:module');
+  const { mkdtempSync, rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const { dirname, join, resolve } = await import('node:path');
+  const { pathToFileURL } = await import('node:url');
+  const fromProject = createRequire(resolve('package.json'));
+  const esbuild = fromProject('esbuild') as typeof import('esbuild');
+  const playwright = pathToFileURL(join(dirname(fromProject.resolve('playwright-core/package.json')), 'index.mjs')).href;
+  const dir = mkdtempSync(join(tmpdir(), 'clip-caliper-bench-overlay-'));
+  try {
+    const outfile = join(dir, 'overlay.mjs');
+    await esbuild.build({
+      entryPoints: ['test/bench/overlay.ts'],
+      bundle: true,
+      platform: 'node',
+      format: 'esm',
+      target: 'node20',
+      outfile,
+      logLevel: 'warning',
+      plugins: [{ name: 'pin-playwright', setup: (b) => void b.onResolve({ filter: /^playwright-core$/ }, () => ({ path: playwright, external: true })) }],
+    });
+    const { overlayBench } = (await import(pathToFileURL(outfile).href)) as typeof import('./overlay');
+    await overlayBench();
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 }

@@ -111,6 +111,17 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
+  it('keeps the choice up to date when a video arrives while choosing', async () => {
+    const page = await open('/late-two.html');
+    await videoReady(page, '#v');
+    await injectOverlay(app, page.url());
+    const buttons = page.locator('clip-caliper-chooser button[data-video-index]');
+    await expect.poll(() => buttons.count()).toBe(2);
+    await page.click('#add');
+    await expect.poll(() => buttons.count()).toBe(3);
+    await page.close();
+  });
+
   it('finds a video added after the page loaded', async () => {
     const page = await open('/late.html');
     await videoReady(page);
@@ -147,6 +158,22 @@ describe('calling the overlay up', () => {
     await ready(frame);
     expect(await overlays(frame)).toBe(1);
     expect(await overlays(page)).toBe(0);
+    await page.close();
+  });
+
+  it('still allows marking a live stream, with a notice', async () => {
+    const page = await open('/live.html');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('Live stream');
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('5');
+    await page.mouse.click(box.x + 320, box.y + 200);
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
+    // marking paused the stream at the moment it recorded
+    expect(await page.evaluate(() => (document.querySelector('video') as HTMLVideoElement).paused)).toBe(true);
     await page.close();
   });
 

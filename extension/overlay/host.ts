@@ -71,9 +71,17 @@ export class OverlayHost {
     this.onPlace = fn;
   }
 
-  /** Puts the host where the video is on screen (viewport coordinates, fixed positioning). */
-  place(): void {
+  private last = '';
+
+  /**
+   * Puts the host where the video is on screen (viewport coordinates, fixed positioning). The
+   * safety-net timer calls this too, so it does nothing unless the video's box really moved.
+   */
+  place(force = false): void {
     const r = this.video.getBoundingClientRect();
+    const key = `${r.left},${r.top},${r.width},${r.height}`;
+    if (!force && key === this.last) return;
+    this.last = key;
     forceStyle(this.el, { left: `${r.left}px`, top: `${r.top}px`, width: `${r.width}px`, height: `${r.height}px` });
     this.onPlace?.();
   }
@@ -103,7 +111,7 @@ export class OverlayHost {
       }
       this.el.removeAttribute('popover');
     }
-    this.place();
+    this.place(true);
   }
 
   get signal(): AbortSignal {

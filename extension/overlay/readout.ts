@@ -28,12 +28,31 @@ export interface LiveFigures {
   result: FrameResult;
 }
 
+let memoKey = '';
+let memoAssumptions: LiveAssumptions | null = null;
+let memoValue: LiveFigures | null = null;
+
 /**
  * The figures for one object span (and an optional landmark at the same frame) under the live
  * assumptions: a small Monte Carlo (4 000 draws, well under a millisecond) so the readout can
  * follow a drag.
  */
 export function liveFigures(
+  object: { points: readonly Point[]; edgeSigmaPx: number },
+  landmark: { points: readonly Point[]; edgeSigmaPx: number } | null,
+  frame: FrameRect,
+  a: LiveAssumptions,
+): LiveFigures | null {
+  // a redraw with the same marks, frame and assumptions reuses the last solve
+  const key = JSON.stringify([object.points, object.edgeSigmaPx, landmark?.points, landmark?.edgeSigmaPx, frame]);
+  if (key === memoKey && a === memoAssumptions) return memoValue;
+  memoKey = key;
+  memoAssumptions = a;
+  memoValue = solveLive(object, landmark, frame, a);
+  return memoValue;
+}
+
+function solveLive(
   object: { points: readonly Point[]; edgeSigmaPx: number },
   landmark: { points: readonly Point[]; edgeSigmaPx: number } | null,
   frame: FrameRect,

@@ -66,9 +66,13 @@ export class OverlayHost {
     this.onKey = fn;
   }
 
-  /** Called after each placement (the session redraws its marks for the new geometry). */
+  /**
+   * Called after each placement (the session redraws its marks for the new geometry), and once
+   * when set: the host was first placed before anyone was listening.
+   */
   set placed(fn: () => void) {
     this.onPlace = fn;
+    fn();
   }
 
   private last = '';

@@ -18,6 +18,12 @@ browser.runtime.onMessage.addListener(
     'mark/remove': async ({ caseId, markId }) => deleteMark(caseId, markId),
     'case/assume': async ({ caseId, assumptions }) => setAssumptions(caseId, assumptions),
     'overlay/inject': async ({ tabId }) => ({ injected: await injectOverlay(tabId) }),
+    'frame/capture': async (_p, sender) => {
+      // activeTab (granted when the user called the overlay up) allows capturing that tab
+      const windowId = sender.tab?.windowId;
+      if (windowId === undefined) throw new Error('capture: not sent from a tab');
+      return { dataUrl: await browser.tabs.captureVisibleTab(windowId, { format: 'png' }) };
+    },
     'frames/foreign': async ({ tabId }) => ({ origins: await foreignFrameOrigins(tabId) }),
     'overlay/inject-origin': async ({ tabId, origin }) => ({ frames: await injectIntoOrigin(tabId, origin) }),
   }),

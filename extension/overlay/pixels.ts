@@ -1,37 +1,108 @@
+import { intrinsicToCss, type Mapping } from '../../src/engine/display';
 import type { Gray } from '../../src/engine/snap';
+import { send } from '../shared/browser';
 
 /**
- * The paused frame's pixels at intrinsic size, for snapping. Reading them fails for a video from
- * another origin served without CORS (the canvas is tainted) and shows nothing for an encrypted
- * one; the overlay then marks without snapping and says so. Grabbed once per frame time.
+ * The paused frame's pixels at intrinsic size, for snapping. Read straight from the video when
+ * the page allows it; a video from another origin served without CORS taints the canvas, and then
+ * the visible tab is captured instead (activeTab allows it once the user called the overlay up),
+ * with the overlay hidden for that moment, and the picture's region resampled to intrinsic pixels:
+ * snapping then works at the screen's resolution. An encrypted video shows nothing either way.
+ * Cached per frame time and layout.
  */
 export class FramePixels {
   private canvas: HTMLCanvasElement | null = null;
-  private cachedAt = Number.NaN;
+  // captures get a canvas of their own: drawing the unreadable video tainted the first one for good
+  private captureCanvas: HTMLCanvasElement | null = null;
+  private cacheKey = '';
   private cached: Gray | null = null;
-  readable = true;
+  /** False once the video's own pixels proved unreadable (then captures are used). */
+  direct = true;
 
-  constructor(private readonly video: HTMLVideoElement) {}
+  constructor(
+    private readonly video: HTMLVideoElement,
+    private readonly mapping: () => Mapping | null,
+    private readonly hideOverlay: (hidden: boolean) => void,
+  ) {}
 
-  get(): Gray | null {
+  async get(): Promise<Gray | null> {
     const v = this.video;
-    if (!this.readable || v.videoWidth === 0) return null;
-    if (this.cached && this.cachedAt === v.currentTime) return this.cached;
-    this.canvas ??= v.ownerDocument.createElement('canvas');
-    const c = this.canvas;
-    c.width = v.videoWidth;
-    c.height = v.videoHeight;
-    const ctx = c.getContext('2d', { willReadFrequently: true });
+    if (v.videoWidth === 0 || v.mediaKeys) return null;
+    const m = this.mapping();
+    const key = `${v.currentTime}|${this.direct}|${m ? JSON.stringify(m) : ''}`;
+    if (this.cached && key === this.cacheKey) return this.cached;
+    const img = this.direct ? this.readDirect() : null;
+    this.cached = img ?? (m ? await this.readCapture(m) : null);
+    this.cacheKey = `${v.currentTime}|${this.direct}|${m ? JSON.stringify(m) : ''}`;
+    return this.cached;
+  }
+
+  private context(w: number, h: number, forCapture = false): CanvasRenderingContext2D | null {
+    const doc = this.video.ownerDocument;
+    const c = forCapture ? (this.captureCanvas ??= doc.createElement('canvas')) : (this.canvas ??= doc.createElement('canvas'));
+    c.width = w;
+    c.height = h;
+    return c.getContext('2d', { willReadFrequently: true });
+  }
+
+  private readDirect(): Gray | null {
+    const v = this.video;
+    const ctx = this.context(v.videoWidth, v.videoHeight);
     if (!ctx) return null;
     try {
       ctx.drawImage(v, 0, 0);
-      const img = ctx.getImageData(0, 0, c.width, c.height);
-      this.cached = { data: img.data, width: img.width, height: img.height, channels: 4 };
-      this.cachedAt = v.currentTime;
-      return this.cached;
+      const d = ctx.getImageData(0, 0, v.videoWidth, v.videoHeight);
+      return { data: d.data, width: d.width, height: d.height, channels: 4 };
     } catch {
-      this.readable = false;
+      this.direct = false;
       return null;
     }
+  }
+
+  private async readCapture(m: Mapping): Promise<Gray | null> {
+    const v = this.video;
+    const view = v.ownerDocument.defaultView ?? window;
+    this.hideOverlay(true);
+    let dataUrl: string;
+    try {
+      // two frames, so the hidden overlay is really off the screen before the capture (with a
+      // timer beside them: a tab in the background paints no frames and must not hang the mark)
+      await Promise.race([
+        new Promise((ok) => view.requestAnimationFrame(() => view.requestAnimationFrame(ok))),
+        new Promise((ok) => view.setTimeout(ok, 120)),
+      ]);
+      // a capture that does not come back in time must not hold up the mark: it is saved unsnapped
+      ({ dataUrl } = await Promise.race([
+        send('frame/capture', {}),
+        new Promise<never>((_, fail) => view.setTimeout(() => fail(new Error('capture timed out')), 2000)),
+      ]));
+    } catch {
+      return null;
+    } finally {
+      this.hideOverlay(false);
+    }
+    const shot = new Image();
+    shot.src = dataUrl;
+    await shot.decode();
+    // the capture is of the top viewport; a same-origin frame's video sits at its frame's offset
+    let ox = 0;
+    let oy = 0;
+    for (let w: Window | null = view; w && w !== w.parent && w.frameElement; w = w.parent) {
+      const r = w.frameElement.getBoundingClientRect();
+      ox += r.left + w.frameElement.clientLeft;
+      oy += r.top + w.frameElement.clientTop;
+    }
+    // the capture is in device pixels from the viewport's top-left: CSS px times the pixel ratio
+    // (which includes the browser's zoom); not the capture's width over innerWidth, which differs
+    // when the window is wider than the viewport it shows
+    const k = view.devicePixelRatio || 1;
+    const a = intrinsicToCss(0, 0, m);
+    const b = intrinsicToCss(v.videoWidth, v.videoHeight, m);
+    const ctx = this.context(v.videoWidth, v.videoHeight, true);
+    if (!ctx) return null;
+    ctx.imageSmoothingEnabled = true;
+    ctx.drawImage(shot, (a.x + ox) * k, (a.y + oy) * k, (b.x - a.x) * k, (b.y - a.y) * k, 0, 0, v.videoWidth, v.videoHeight);
+    const d = ctx.getImageData(0, 0, v.videoWidth, v.videoHeight);
+    return { data: d.data, width: d.width, height: d.height, channels: 4 };
   }
 }

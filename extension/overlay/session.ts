@@ -6,7 +6,7 @@ import { validateCase } from '../../src/case/validate';
 import { caseKey } from '../../src/case/schema';
 import { browser, send } from '../shared/browser';
 import { DEFAULT_EDGE_SIGMA_PX, liveAssumptionsFor, type LiveAssumptions } from './assumptions';
-import { h, svg } from './dom';
+import { forceStyle, h, svg } from './dom';
 import { degrees, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
@@ -81,7 +81,11 @@ export class MeasureSession {
     private readonly onClosed: (s: MeasureSession) => void,
   ) {
     this.host = new OverlayHost(video);
-    this.pixels = new FramePixels(video);
+    this.pixels = new FramePixels(
+      video,
+      () => this.currentMapping(),
+      (hidden) => forceStyle(this.host.el, { visibility: hidden ? 'hidden' : 'visible' }),
+    );
     const root = this.host.root;
     root.append(h('style', {}, OVERLAY_CSS));
 
@@ -225,7 +229,7 @@ export class MeasureSession {
     const notes: string[] = [];
     if (!Number.isFinite(v.duration)) notes.push('Live stream: marks keep the playback time.');
     if (v.mediaKeys) notes.push('Encrypted video: its pixels are hidden, so snapping and the magnifier are off; marking still works.');
-    if (!this.pixels.readable) notes.push('This video’s pixels cannot be read here (another site, no permission): snapping is off.');
+    if (!this.pixels.direct) notes.push('This video’s pixels cannot be read directly (it comes from another site): snapping uses a capture of the screen, at the screen’s resolution.');
     this.notice(notes.join(' '));
   }
 
@@ -423,7 +427,7 @@ export class MeasureSession {
       case 'S':
         if (!onSurface) return;
         e.preventDefault();
-        this.snapSelected();
+        void this.snapSelected();
         return;
       case 'Delete':
       case 'Backspace':
@@ -505,7 +509,7 @@ export class MeasureSession {
     let points = d.points.slice(0, POINTS_PER_KIND[d.kind]);
     let sigma = DEFAULT_EDGE_SIGMA_PX;
     if (points.length === 2 && (d.kind === 'object-span' || d.kind === 'landmark-span')) {
-      const snapped = this.snapSpan(points as [Point, Point]);
+      const snapped = await this.snapSpan(points as [Point, Point]);
       if (snapped) ({ points, sigma } = snapped);
     }
     const mark: Mark = {
@@ -523,12 +527,11 @@ export class MeasureSession {
   }
 
   /** Snaps both ends of a span to the edges under them, along the span; null if nothing to snap to. */
-  private snapSpan([a, b]: [Point, Point]): { points: Point[]; sigma: number } | null {
-    const img = this.pixels.get();
-    if (!img) {
-      this.describeVideo();
-      return null;
-    }
+  private async snapSpan([a, b]: [Point, Point]): Promise<{ points: Point[]; sigma: number } | null> {
+    // snapping is an aid: if reading pixels fails, the mark is kept as placed
+    const img = await this.pixels.get().catch(() => null);
+    this.describeVideo();
+    if (!img) return null;
     const len = Math.hypot(b.x - a.x, b.y - a.y);
     const ux = (b.x - a.x) / len;
     const uy = (b.y - a.y) / len;
@@ -542,24 +545,26 @@ export class MeasureSession {
     };
   }
 
-  private snapSelected(): void {
+  private async snapSelected(): Promise<void> {
     const m = this.selectedMark();
     if (!m || m.points.length !== 2 || !this.selected) return;
-    const img = this.pixels.get();
+    const img = await this.pixels.get().catch(() => null);
     if (!img) {
       this.say('Snapping is off for this video.');
       return;
     }
     const [a, b] = m.points as [Point, Point];
     const len = Math.hypot(b.x - a.x, b.y - a.y);
-    const p = m.points[this.selected.end]!;
+    const p = m.points[this.selected!.end]!;
     const s = snapAlong(img, p.x, p.y, (b.x - a.x) / len, (b.y - a.y) / len, 6);
     if (!s) {
       this.say('No clear edge under this end.');
       return;
     }
-    const points = m.points.map((q, i) => (i === this.selected!.end ? { x: s.x, y: s.y } : q));
-    this.replaceMark({ ...m, points, edgeSigmaPx: Math.max(m.edgeSigmaPx, s.sigmaPx) }, false);
+    const sel = this.selected;
+    if (!sel) return;
+    const points = m.points.map((q, i) => (i === sel.end ? { x: s.x, y: s.y } : q));
+    await this.replaceMark({ ...m, points, edgeSigmaPx: Math.max(m.edgeSigmaPx, s.sigmaPx) }, false);
     this.say(`Snapped to the edge, uncertainty ${s.sigmaPx.toFixed(2)} px.`);
   }
 

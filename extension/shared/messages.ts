@@ -19,6 +19,8 @@ export interface RequestMap {
   'case/assume': { payload: { caseId: string; assumptions: CaseAssumptions }; reply: CaseRecord };
   /** The popup asks the background to call the overlay up in the current tab. */
   'overlay/inject': { payload: { tabId: number }; reply: { injected: boolean } };
+  /** A capture of the sender's visible tab (PNG data URL), for snapping when the video's pixels are unreadable. */
+  'frame/capture': { payload: Record<string, never>; reply: { dataUrl: string } };
   /** Origins of frames in the tab that the top page cannot reach into (their videos need a grant). */
   'frames/foreign': { payload: { tabId: number }; reply: { origins: string[] } };
   /** After the user granted an origin: call the overlay up in that origin's frames that hold a video. */

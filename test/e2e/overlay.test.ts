@@ -349,6 +349,44 @@ describe('marking the fixture clip', () => {
     await page.close();
   });
 
+  it('snaps through a screen capture when the video comes from another origin without CORS', async () => {
+    const page = await open('/tainted.html');
+    await videoReady(page);
+    const f = truth.frames[1]!;
+    await seek(page, f.t);
+    // the page really cannot read this frame
+    expect(await page.evaluate(() => {
+      const c = document.createElement('canvas');
+      c.getContext('2d')!.drawImage(document.querySelector('video')!, 0, 0);
+      try {
+        c.getContext('2d')!.getImageData(0, 0, 1, 1);
+        return 'readable';
+      } catch {
+        return 'tainted';
+      }
+    })).toBe('tainted');
+    await injectOverlay(app, page.url());
+    await ready(page);
+    // a screen capture is of the tab in front, as the user's tab is when they mark
+    await page.bringToFront();
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    // start 2 px outside each end: only snapping brings the ends back onto the edges
+    await page.mouse.move(box.x + f.object.x1 - 2, box.y + f.object.y1);
+    await page.mouse.down();
+    await page.mouse.move(box.x + f.object.x2 + 2, box.y + f.object.y2, { steps: 5 });
+    await page.mouse.up();
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
+    const mark = (await caseFor(page.url())).marks[0]!;
+    expect(Math.abs(mark.points[0]!.x - f.object.x1)).toBeLessThan(1);
+    expect(Math.abs(mark.points[1]!.x - f.object.x2)).toBeLessThan(1);
+    expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('capture of the screen');
+    // the overlay is back after the capture
+    expect(await page.evaluate(() => getComputedStyle(document.querySelector('clip-caliper-overlay')!).visibility)).toBe('visible');
+    await page.close();
+  });
+
   it('keys typed in the overlay never reach the page, and the page CSS cannot hide it', async () => {
     const page = await open('/hostile.html');
     await videoReady(page);

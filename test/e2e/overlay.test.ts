@@ -257,6 +257,61 @@ describe('CSS pixels to intrinsic pixels', () => {
   });
 });
 
+describe('keyboard, announcements and page changes', () => {
+  it('marks from the keyboard alone: Enter places, arrows nudge by 1, 10 and 0.1 px, and changes are announced', async () => {
+    const page = await open('/plain.html?keys');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    const live = page.locator('clip-caliper-overlay [data-testid=live]');
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('5'); // one point: the cursor starts at the picture's centre (320, 180)
+    await expect.poll(() => live.textContent()).toContain('Object centre');
+    await page.keyboard.press('Enter');
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
+    // the new mark's end is selected: nudge it right 1, down 10 (Shift), left 0.1 (Alt)
+    await page.keyboard.press('ArrowRight');
+    await page.keyboard.press('Shift+ArrowDown');
+    await page.keyboard.press('Alt+ArrowLeft');
+    await expect.poll(() => live.textContent()).toContain('End 1 at 320.9, 190.0 px');
+    await expect.poll(async () => (await caseFor(page.url())).marks[0]!.points[0]).toEqual({ x: 320.9, y: 190 });
+    expect(page.url()).toContain('/plain.html?keys'); // Alt+ArrowLeft did not go back in history
+    await page.close();
+  });
+
+  it('follows the video when the page scrolls', async () => {
+    const page = await open('/tall.html');
+    await videoReady(page);
+    await page.evaluate(() => window.scrollTo(0, 500));
+    await injectOverlay(app, page.url());
+    await ready(page);
+    for (const y of [650, 200]) {
+      await page.evaluate((top) => window.scrollTo(0, top), y);
+      await expect
+        .poll(async () => {
+          const h = (await page.locator('clip-caliper-overlay').boundingBox())!;
+          const v = (await page.locator('video').boundingBox())!;
+          return Math.abs(h.y - v.y) + Math.abs(h.x - v.x);
+        })
+        .toBeLessThan(1);
+    }
+    await page.close();
+  });
+
+  it('ends its session when the page removes the video', async () => {
+    const page = await open('/plain.html?remove');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    await page.evaluate(() => document.querySelector('video')!.remove());
+    await expect.poll(() => overlays(page)).toBe(0);
+    // and calling it up again says there is nothing to measure
+    await injectOverlay(app, page.url());
+    await expect.poll(() => page.locator('clip-caliper-chooser [data-testid=chooser-heading]').textContent()).toContain('No video found');
+    await page.close();
+  });
+});
+
 describe('fullscreen and pixel density', () => {
   it('follows the video into fullscreen: in the top layer when the video itself is fullscreen', async () => {
     const page = await open('/fullscreen.html?video');

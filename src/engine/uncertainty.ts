@@ -1,7 +1,6 @@
 import { spanHalfAngleTanUnchecked, spanLineConstants } from './camera';
-import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
+import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS } from './constants';
 import { InputError } from './errors';
-import { FIT_OUT, FIT_OUT_LENGTH, FitStatus, fitRangeOverTimeKernel } from './fit';
 import { parallelFixedPointFraction } from './fixedpoint';
 import { rangeUnchecked } from './range';
 import { Rng } from './rng';
@@ -93,7 +92,7 @@ const DEFAULT_DRAWS = 20_000;
 const DEFAULT_SEED = 1;
 
 /** Reusable column storage: solving the same size twice (a live readout) allocates nothing new. */
-class Columns {
+export class Columns {
   private store: Float64Array[] = [];
   get(k: number, n: number): Float64Array {
     let c = this.store[k];
@@ -186,148 +185,18 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
 }
 
 /* ---------------------------------------------------------------------------------------------- */
-/* Range over time: the same object at several timestamps, propagated through the fit.            */
-
-export interface SeriesScene {
-  frame: { widthPx: number; heightPx: number };
-  hfov: Band;
-  /** The same object at every timestamp: one size and aspect band (drawn once per draw, shared). */
-  object: { size: Band; aspect: Band };
-  marks: { t: number; span: SpanMark }[];
-  observerSpeed?: Band;
-}
-
-export interface SeriesResult {
-  closestApproach: Estimate;
-  relativeSpeed: Estimate;
-  tClosest: Estimate;
-  /** Object ground speed for each reading of the direction of travel, where the draws allow it. */
-  objectSpeed?: { opposite?: Estimate; sameSlower?: Estimate; sameFaster?: Estimate };
-  /** Share of draws whose fit failed (degenerate resample); they are left out of the figures. */
-  failedShare: number;
-  draws: number;
-  seed: number;
-}
-
-const seriesColumns = new Columns();
-
-/**
- * Parametric bootstrap through the range-over-time fit: each draw redraws the shared size, aspect
- * and field of view, perturbs every marked end by its edge uncertainty, recomputes every range and
- * refits. Size and field-of-view errors scale every range together, so they are drawn once per draw,
- * not per mark: that correlation is what makes the interval on the closest approach honest.
- */
-export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): SeriesResult {
-  const { draws, seed } = checkOptions(options, 2_000);
-  const W = scene.frame?.widthPx;
-  const H = scene.frame?.heightPx;
-  positive('camera frame width', W, MAX_FRAME_PX, ' px');
-  positive('camera frame height', H, MAX_FRAME_PX, ' px');
-  checkHfov(scene.hfov);
-  band('object size', scene.object?.size?.lo, scene.object?.size?.hi, 0.001, MAX_SIZE_M, ' m');
-  checkAspect('object aspect angle', scene.object.aspect);
-  const marks = scene.marks;
-  if (!Array.isArray(marks) || marks.length < 3) {
-    throw new InputError('timestamps', marks, 'at least 3 marked timestamps for a range-over-time fit');
-  }
-  marks.forEach((m, i) => {
-    inRange(`timestamp ${i + 1}`, m.t, 0, MAX_TIME_S, ' s');
-    if (i > 0 && !(m.t > marks[i - 1]!.t)) {
-      throw new InputError(`timestamp ${i + 1}`, m.t, `later than timestamp ${i} (${marks[i - 1]!.t} s)`);
-    }
-    checkSpan(`object span at timestamp ${i + 1}`, m.span, W, H);
-  });
-  if (scene.observerSpeed) band('observer speed', scene.observerSpeed.lo, scene.observerSpeed.hi, 0, MAX_SPEED_MS, ' m/s');
-
-  const n = marks.length;
-  const t = Float64Array.from(marks, (m) => m.t);
-  const r = new Float64Array(n);
-  const sig = new Float64Array(n);
-  const out = new Float64Array(FIT_OUT_LENGTH);
-  // relative range error from the two ends' noise, sqrt(2) sigma / span (small-angle), for the fit's weights
-  const relSigma = Float64Array.from(marks, (m) =>
-    Math.max((Math.SQRT2 * m.span.edgeSigmaPx) / Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1), 1e-6),
-  );
-  const col = (k: number) => seriesColumns.get(k, draws);
-  const [dp, vr, t0, wOpp, wSlow, wFast, tanHalf, size, sinA, u, theta] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10].map(col) as Tuple<11>;
-  const perMark = marks.map((_, k) => col(11 + k));
-  const rng = new Rng(seed);
-  const us = scene.observerSpeed;
-
-  // shared by every mark of a draw: one camera, one object
-  fillTanHalf(rng, scene.hfov, tanHalf, draws);
-  fillUniform(rng, scene.object.size, size, draws);
-  fillSinAspect(rng, scene.object.aspect, sinA, draws);
-  for (let k = 0; k < n; k++) {
-    fillHalfTans(rng, marks[k]!.span, W, H, tanHalf, theta, draws);
-    fillRanges(size, sinA, theta, perMark[k]!, draws);
-  }
-  if (us) fillUniform(rng, us, u, draws);
-
-  let failed = 0;
-  for (let i = 0; i < draws; i++) {
-    let bad = false;
-    for (let k = 0; k < n; k++) {
-      const R = perMark[k]![i]!;
-      r[k] = R;
-      sig[k] = R * relSigma[k]!;
-      if (!(R > 0)) bad = true;
-    }
-    const status = bad ? -1 : fitRangeOverTimeKernel(t, r, sig, n, out);
-    if (status !== FitStatus.OK) {
-      failed++;
-      dp[i] = vr[i] = t0[i] = wOpp[i] = wSlow[i] = wFast[i] = Number.NaN;
-      continue;
-    }
-    const V = out[FIT_OUT.relativeSpeed]!;
-    const ui = u[i]!;
-    dp[i] = out[FIT_OUT.closestApproach]!;
-    vr[i] = V;
-    t0[i] = out[FIT_OUT.tClosest]!;
-    // the three readings of the direction of travel (fit.ts objectSpeedFromRelative, per draw)
-    wOpp[i] = V >= ui ? V - ui : Number.NaN;
-    wSlow[i] = V <= ui ? ui - V : Number.NaN;
-    wFast[i] = ui + V;
-  }
-
-  if (failed === draws) {
-    throw new InputError('timestamps', `${n} marks`, 'ranges that follow one straight pass (no draw could be fitted)');
-  }
-  const result: SeriesResult = {
-    closestApproach: summarize(dp, draws),
-    relativeSpeed: summarize(vr, draws),
-    tClosest: summarize(t0, draws),
-    failedShare: failed / draws,
-    draws,
-    seed,
-  };
-  if (us) {
-    // a direction is reported only if a real share of draws supports it (else the reading is impossible)
-    const pick = (c: Float64Array) => (finiteShare(c, draws) >= 0.05 ? summarize(c, draws) : undefined);
-    const opposite = pick(wOpp);
-    const sameSlower = pick(wSlow);
-    const sameFaster = pick(wFast);
-    result.objectSpeed = {};
-    if (opposite) result.objectSpeed.opposite = opposite;
-    if (sameSlower) result.objectSpeed.sameSlower = sameSlower;
-    if (sameFaster) result.objectSpeed.sameFaster = sameFaster;
-  }
-  return result;
-}
-
-/* ---------------------------------------------------------------------------------------------- */
 
 /*
  * The passes. Inputs were validated once up front, so each draw runs the unchecked arithmetic
  * (camera.ts, range.ts) and turns a degenerate draw into NaN, which summarize drops.
  */
 
-function fillUniform(rng: Rng, b: Band, out: Float64Array, n: number): void {
+export function fillUniform(rng: Rng, b: Band, out: Float64Array, n: number): void {
   if (b.lo === b.hi) out.fill(b.lo, 0, n);
   else rng.fillBetween(out, n, b.lo, b.hi);
 }
 
-function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number): void {
+export function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number): void {
   fillUniform(rng, hfov, out, n);
   for (let i = 0; i < n; i++) out[i] = Math.tan(out[i]! / 2);
 }
@@ -339,7 +208,7 @@ function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number): void {
  * the off-centre factor, parts in ten thousand per pixel. Columns hold the half-angle tangent, not
  * the angle: range needs only that.
  */
-function fillHalfTans(rng: Rng, s: SpanMark, W: number, H: number, tanHalf: Float64Array, out: Float64Array, n: number): void {
+export function fillHalfTans(rng: Rng, s: SpanMark, W: number, H: number, tanHalf: Float64Array, out: Float64Array, n: number): void {
   const [len, c0, q0] = spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H) as unknown as [number, number, number];
   // normals first, geometry second: two simple loops pipeline better than one mixed loop
   rng.fillNormal(out, n, Math.SQRT2 * s.edgeSigmaPx);
@@ -349,7 +218,7 @@ function fillHalfTans(rng: Rng, s: SpanMark, W: number, H: number, tanHalf: Floa
   }
 }
 
-function fillSinAspect(rng: Rng, aspect: Band, out: Float64Array, n: number): void {
+export function fillSinAspect(rng: Rng, aspect: Band, out: Float64Array, n: number): void {
   if (aspect.lo === aspect.hi) out.fill(Math.sin(aspect.lo), 0, n);
   else {
     rng.fillBetween(out, n, aspect.lo, aspect.hi);
@@ -358,14 +227,14 @@ function fillSinAspect(rng: Rng, aspect: Band, out: Float64Array, n: number): vo
 }
 
 /** Range per draw from tan(theta/2), size and sin(aspect); NaN where the angle is NaN or the range out of bounds. */
-function fillRanges(size: Float64Array, sinA: Float64Array, halfTan: Float64Array, out: Float64Array, n: number): void {
+export function fillRanges(size: Float64Array, sinA: Float64Array, halfTan: Float64Array, out: Float64Array, n: number): void {
   for (let i = 0; i < n; i++) {
     const r = rangeUnchecked(size[i]!, halfTan[i]!, sinA[i]!);
     out[i] = r > 0 && r <= MAX_RANGE_M ? r : Number.NaN;
   }
 }
 
-type Tuple<N extends number, T extends unknown[] = []> = T['length'] extends N ? T : Tuple<N, [...T, Float64Array]>;
+export type Tuple<N extends number, T extends unknown[] = []> = T['length'] extends N ? T : Tuple<N, [...T, Float64Array]>;
 
 /** Regime of each draw's fixed point; a draw without a finite range is left out, one without a finite point is 'none'. */
 function regimeShares(frac: Float64Array, range: Float64Array, n: number): RegimeShares | null {
@@ -385,7 +254,7 @@ function regimeShares(frac: Float64Array, range: Float64Array, n: number): Regim
   return total === 0 ? null : { between: between / total, beyond: beyond / total, behind: behind / total, none: none / total };
 }
 
-function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: number; seed: number } {
+export function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: number; seed: number } {
   const draws = o.draws ?? defaultDraws;
   const seed = o.seed ?? DEFAULT_SEED;
   integer('draws', draws, 100, 1_000_000);
@@ -393,14 +262,14 @@ function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: n
   return { draws, seed };
 }
 
-function checkHfov(b: Band): void {
+export function checkHfov(b: Band): void {
   const deg = 180 / Math.PI;
   if (!b) throw new InputError('horizontal field of view', b, 'a band of degrees between 0 and 180');
   // checked in degrees, because that is what the user typed
   band('horizontal field of view', b.lo * deg, b.hi * deg, 1e-6, 179.999, ' deg');
 }
 
-function checkAspect(field: string, b: Band): void {
+export function checkAspect(field: string, b: Band): void {
   const deg = 180 / Math.PI;
   if (!b) throw new InputError(field, b, 'a band of degrees, more than 0 and less than 180');
   band(field, b.lo * deg, b.hi * deg, 1e-6, 179.999, ' deg');
@@ -413,7 +282,7 @@ function checkBody(name: string, body: MarkedBody, W: number, H: number): void {
   checkAspect(`${name} aspect angle`, body.aspect);
 }
 
-function checkSpan(field: string, s: SpanMark, W: number, H: number): void {
+export function checkSpan(field: string, s: SpanMark, W: number, H: number): void {
   if (!s) throw new InputError(field, s, 'two marked ends');
   // one pixel of slack: an end marked on the frame's edge may sit just past it after sub-pixel snapping
   inRange(`${field}: first end x`, s.x1, -1, W + 1, ' px');

@@ -1,5 +1,6 @@
 import { DEG } from '../../src/engine/constants';
-import { solveFrame, solveSeries, type FrameScene, type SeriesScene } from '../../src/engine/uncertainty';
+import { solveFrame, type FrameScene } from '../../src/engine/uncertainty';
+import { solveSeries, type SeriesScene } from '../../src/engine/series';
 import { Rng } from '../../src/engine/rng';
 import { getHeapSpaceStatistics } from 'node:v8';
 

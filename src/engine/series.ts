@@ -1,0 +1,155 @@
+import { MAX_FRAME_PX, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
+import { InputError } from './errors';
+import { FIT_OUT, FIT_OUT_LENGTH, FitStatus, fitRangeOverTimeKernel } from './fit';
+import { Rng } from './rng';
+import { finiteShare, summarize, type Estimate } from './stats';
+import {
+  checkAspect,
+  checkHfov,
+  checkOptions,
+  checkSpan,
+  Columns,
+  fillHalfTans,
+  fillRanges,
+  fillSinAspect,
+  fillTanHalf,
+  fillUniform,
+  type Band,
+  type SolveOptions,
+  type SpanMark,
+  type Tuple,
+} from './uncertainty';
+import { band, inRange, positive } from './validate';
+
+/*
+ * Range over time with its uncertainty: the same object marked at several timestamps, propagated
+ * through the range-over-time fit. A module of its own, so that the overlay, which needs only
+ * single-frame figures, does not carry the fit.
+ */
+export interface SeriesScene {
+  frame: { widthPx: number; heightPx: number };
+  hfov: Band;
+  /** The same object at every timestamp: one size and aspect band (drawn once per draw, shared). */
+  object: { size: Band; aspect: Band };
+  marks: { t: number; span: SpanMark }[];
+  observerSpeed?: Band;
+}
+
+export interface SeriesResult {
+  closestApproach: Estimate;
+  relativeSpeed: Estimate;
+  tClosest: Estimate;
+  /** Object ground speed for each reading of the direction of travel, where the draws allow it. */
+  objectSpeed?: { opposite?: Estimate; sameSlower?: Estimate; sameFaster?: Estimate };
+  /** Share of draws whose fit failed (degenerate resample); they are left out of the figures. */
+  failedShare: number;
+  draws: number;
+  seed: number;
+}
+
+const seriesColumns = new Columns();
+
+/**
+ * Parametric bootstrap through the range-over-time fit: each draw redraws the shared size, aspect
+ * and field of view, perturbs every marked end by its edge uncertainty, recomputes every range and
+ * refits. Size and field-of-view errors scale every range together, so they are drawn once per draw,
+ * not per mark: that correlation is what makes the interval on the closest approach honest.
+ */
+export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): SeriesResult {
+  const { draws, seed } = checkOptions(options, 2_000);
+  const W = scene.frame?.widthPx;
+  const H = scene.frame?.heightPx;
+  positive('camera frame width', W, MAX_FRAME_PX, ' px');
+  positive('camera frame height', H, MAX_FRAME_PX, ' px');
+  checkHfov(scene.hfov);
+  band('object size', scene.object?.size?.lo, scene.object?.size?.hi, 0.001, MAX_SIZE_M, ' m');
+  checkAspect('object aspect angle', scene.object.aspect);
+  const marks = scene.marks;
+  if (!Array.isArray(marks) || marks.length < 3) {
+    throw new InputError('timestamps', marks, 'at least 3 marked timestamps for a range-over-time fit');
+  }
+  marks.forEach((m, i) => {
+    inRange(`timestamp ${i + 1}`, m.t, 0, MAX_TIME_S, ' s');
+    if (i > 0 && !(m.t > marks[i - 1]!.t)) {
+      throw new InputError(`timestamp ${i + 1}`, m.t, `later than timestamp ${i} (${marks[i - 1]!.t} s)`);
+    }
+    checkSpan(`object span at timestamp ${i + 1}`, m.span, W, H);
+  });
+  if (scene.observerSpeed) band('observer speed', scene.observerSpeed.lo, scene.observerSpeed.hi, 0, MAX_SPEED_MS, ' m/s');
+
+  const n = marks.length;
+  const t = Float64Array.from(marks, (m) => m.t);
+  const r = new Float64Array(n);
+  const sig = new Float64Array(n);
+  const out = new Float64Array(FIT_OUT_LENGTH);
+  // relative range error from the two ends' noise, sqrt(2) sigma / span (small-angle), for the fit's weights
+  const relSigma = Float64Array.from(marks, (m) =>
+    Math.max((Math.SQRT2 * m.span.edgeSigmaPx) / Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1), 1e-6),
+  );
+  const col = (k: number) => seriesColumns.get(k, draws);
+  const [dp, vr, t0, wOpp, wSlow, wFast, tanHalf, size, sinA, u, theta] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10].map(col) as Tuple<11>;
+  const perMark = marks.map((_, k) => col(11 + k));
+  const rng = new Rng(seed);
+  const us = scene.observerSpeed;
+
+  // shared by every mark of a draw: one camera, one object
+  fillTanHalf(rng, scene.hfov, tanHalf, draws);
+  fillUniform(rng, scene.object.size, size, draws);
+  fillSinAspect(rng, scene.object.aspect, sinA, draws);
+  for (let k = 0; k < n; k++) {
+    fillHalfTans(rng, marks[k]!.span, W, H, tanHalf, theta, draws);
+    fillRanges(size, sinA, theta, perMark[k]!, draws);
+  }
+  if (us) fillUniform(rng, us, u, draws);
+
+  let failed = 0;
+  for (let i = 0; i < draws; i++) {
+    let bad = false;
+    for (let k = 0; k < n; k++) {
+      const R = perMark[k]![i]!;
+      r[k] = R;
+      sig[k] = R * relSigma[k]!;
+      if (!(R > 0)) bad = true;
+    }
+    const status = bad ? -1 : fitRangeOverTimeKernel(t, r, sig, n, out);
+    if (status !== FitStatus.OK) {
+      failed++;
+      dp[i] = vr[i] = t0[i] = wOpp[i] = wSlow[i] = wFast[i] = Number.NaN;
+      continue;
+    }
+    const V = out[FIT_OUT.relativeSpeed]!;
+    const ui = u[i]!;
+    dp[i] = out[FIT_OUT.closestApproach]!;
+    vr[i] = V;
+    t0[i] = out[FIT_OUT.tClosest]!;
+    // the three readings of the direction of travel (fit.ts objectSpeedFromRelative, per draw)
+    wOpp[i] = V >= ui ? V - ui : Number.NaN;
+    wSlow[i] = V <= ui ? ui - V : Number.NaN;
+    wFast[i] = ui + V;
+  }
+
+  if (failed === draws) {
+    throw new InputError('timestamps', `${n} marks`, 'ranges that follow one straight pass (no draw could be fitted)');
+  }
+  const result: SeriesResult = {
+    closestApproach: summarize(dp, draws),
+    relativeSpeed: summarize(vr, draws),
+    tClosest: summarize(t0, draws),
+    failedShare: failed / draws,
+    draws,
+    seed,
+  };
+  if (us) {
+    // a direction is reported only if a real share of draws supports it (else the reading is impossible)
+    const pick = (c: Float64Array) => (finiteShare(c, draws) >= 0.05 ? summarize(c, draws) : undefined);
+    const opposite = pick(wOpp);
+    const sameSlower = pick(wSlow);
+    const sameFaster = pick(wFast);
+    result.objectSpeed = {};
+    if (opposite) result.objectSpeed.opposite = opposite;
+    if (sameSlower) result.objectSpeed.sameSlower = sameSlower;
+    if (sameFaster) result.objectSpeed.sameFaster = sameFaster;
+  }
+  return result;
+}
+

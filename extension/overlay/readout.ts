@@ -1,27 +1,9 @@
-import type { Mark, Point } from '../../src/case/schema';
+import type { FrameRect } from '../../src/case/frames';
+import type { Point } from '../../src/case/schema';
 import { solveFrame, type FrameResult } from '../../src/engine/uncertainty';
 import type { LiveAssumptions } from './assumptions';
 
-/** Camera frame in intrinsic pixels: the whole video unless frame edges were marked. */
-export interface FrameRect {
-  left: number;
-  right: number;
-  top: number;
-  bottom: number;
-}
-
-export function cameraFrame(marks: readonly Mark[], videoWidth: number, videoHeight: number): FrameRect {
-  // the latest frame-edges mark wins: the presentation does not change within a clip
-  const edges = [...marks].reverse().find((m) => m.kind === 'frame-edges');
-  if (!edges) return { left: 0, right: videoWidth, top: 0, bottom: videoHeight };
-  const [a, b] = edges.points as [Point, Point];
-  return { left: Math.min(a.x, b.x), right: Math.max(a.x, b.x), top: 0, bottom: videoHeight };
-}
-
-/** Marks that belong to the frame at time t (the same paused frame: within half a frame at 24 fps). */
-export function marksAt(marks: readonly Mark[], t: number): Mark[] {
-  return marks.filter((m) => Math.abs(m.t - t) < 1 / 48);
-}
+export { cameraFrame, marksAt, type FrameRect } from '../../src/case/frames';
 
 export interface LiveFigures {
   spanPx: number;

@@ -93,6 +93,10 @@ export interface CaseAssumptions {
   objectSizeM: Range;
   aspectDeg: Range;
   landmarkSizeM: Range;
+  /** The observer's ground speed, m/s; absent until the user gives or measures it. */
+  observerSpeedMs?: Range;
+  /** What the object is taken to be, for the plausibility verdict (plausibility.ts ObjectKind). */
+  objectKind?: 'fixed-wing-transport' | 'fixed-wing-light' | 'light-sport' | 'rotorcraft' | 'unknown';
 }
 
 export interface CaseRecord {

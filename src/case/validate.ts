@@ -44,6 +44,11 @@ export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
   range(a.objectSizeM, `${path}.objectSizeM`, 0.001, 1000);
   range(a.aspectDeg, `${path}.aspectDeg`, 0.01, 179.99);
   range(a.landmarkSizeM, `${path}.landmarkSizeM`, 0.001, 1000);
+  if (a.observerSpeedMs !== undefined) range(a.observerSpeedMs, `${path}.observerSpeedMs`, 0, 1000);
+  const kinds = ['fixed-wing-transport', 'fixed-wing-light', 'light-sport', 'rotorcraft', 'unknown'];
+  if (a.objectKind !== undefined && !kinds.includes(a.objectKind as string)) {
+    throw new CaseFormatError(`${path}.objectKind`, `expected one of ${kinds.join(', ')}`);
+  }
   return x as CaseAssumptions;
 }
 

@@ -1,0 +1,123 @@
+import { judgeSpeed, type Verdict } from '../engine/plausibility';
+import { solveSeries, type SeriesResult } from '../engine/series';
+import type { Estimate } from '../engine/stats';
+import { solveFrame, type FrameResult, type RegimeShares } from '../engine/uncertainty';
+import { engineAssumptions, type EngineAssumptions } from './assumptions';
+import { cameraFrame, marksAt, spanInFrame, type FrameRect } from './frames';
+import type { CaseRecord, Mark } from './schema';
+
+/*
+ * A case's figures from its marks and assumptions: what the popup shows and what the summary and
+ * the command-line recompute will print. Pure: the same case and options give the same numbers.
+ */
+
+export interface TimestampFigures {
+  t: number;
+  objectMark: Mark;
+  spanPx: number;
+  result: FrameResult;
+  landmarkMark: Mark | null;
+  /** The regime most draws agree on, when a fixed point was computed. */
+  regime: keyof RegimeShares | null;
+}
+
+export interface CaseAnalysis {
+  assumptions: EngineAssumptions;
+  frame: FrameRect;
+  timestamps: TimestampFigures[];
+  series: SeriesResult | null;
+  /** Why there is no range-over-time fit, in one line, when there is none. */
+  seriesMissing: string | null;
+  verdict: Verdict | null;
+  verdictMissing: string | null;
+  /** Marks that could not be solved, with the reason (an end outside the camera frame, say). */
+  problems: string[];
+}
+
+export interface AnalysisOptions {
+  draws?: number;
+  seriesDraws?: number;
+  seed?: number;
+}
+
+export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseAnalysis {
+  const a = engineAssumptions(c.assumptions);
+  const frame = cameraFrame(c.marks, c.video.width, c.video.height);
+  const draws = options.draws ?? 20_000;
+  const seed = options.seed ?? 1;
+  const frameSize = { widthPx: frame.right - frame.left, heightPx: frame.bottom - frame.top };
+  const objects = c.marks.filter((m) => m.kind === 'object-span').sort((x, y) => x.t - y.t);
+  const problems: string[] = [];
+  const timestamps: TimestampFigures[] = [];
+  for (const m of objects) {
+    const landmark = marksAt(c.marks, m.t).find((x) => x.kind === 'landmark-span') ?? null;
+    try {
+      const result = solveFrame(
+        {
+          frame: frameSize,
+          hfov: a.hfov,
+          object: { span: spanInFrame(m, frame), size: a.objectSize, aspect: a.aspect },
+          ...(landmark ? { landmark: { span: spanInFrame(landmark, frame), size: a.landmarkSize, aspect: a.aspect } } : {}),
+          ...(a.observerSpeed ? { observerSpeed: a.observerSpeed } : {}),
+        },
+        { draws, seed },
+      );
+      const [p, q] = m.points;
+      timestamps.push({ t: m.t, objectMark: m, spanPx: Math.hypot(q!.x - p!.x, q!.y - p!.y), result, landmarkMark: landmark, regime: majority(result.regimeShares) });
+    } catch (err) {
+      problems.push(`object ends at ${m.t.toFixed(3)} s: ${(err as Error).message}`);
+    }
+  }
+
+  let series: SeriesResult | null = null;
+  let seriesMissing: string | null = null;
+  const distinct = objects.filter((m, i) => i === 0 || m.t - objects[i - 1]!.t >= 1 / 48);
+  if (distinct.length < 3) {
+    seriesMissing = `A range-over-time fit needs the object's ends marked at 3 or more timestamps (${distinct.length} so far).`;
+  } else {
+    try {
+      series = solveSeries(
+        {
+          frame: frameSize,
+          hfov: a.hfov,
+          object: { size: a.objectSize, aspect: a.aspect },
+          marks: distinct.map((m) => ({ t: m.t, span: spanInFrame(m, frame) })),
+          ...(a.observerSpeed ? { observerSpeed: a.observerSpeed } : {}),
+        },
+        { draws: options.seriesDraws ?? 2_000, seed },
+      );
+    } catch (err) {
+      seriesMissing = `No range-over-time fit: ${(err as Error).message}`;
+    }
+  }
+
+  let verdict: Verdict | null = null;
+  let verdictMissing: string | null = null;
+  const withSpeed = timestamps.find((x) => x.result.impliedSpeed);
+  if (!a.observerSpeed) verdictMissing = 'A verdict needs the observer’s speed (given, or measured from lane dashes).';
+  else if (!withSpeed) verdictMissing = 'A verdict needs a landmark the object seems pinned over, marked on the same frame as its ends.';
+  else {
+    try {
+      verdict = judgeSpeed({ groundSpeed: magnitude(withSpeed.result.impliedSpeed!), kind: a.objectKind });
+    } catch (err) {
+      verdictMissing = `No verdict: ${(err as Error).message}`;
+    }
+  }
+  return { assumptions: a, frame, timestamps, series, seriesMissing, verdict, verdictMissing, problems };
+}
+
+/**
+ * The interval of |w| from that of the signed speed w. When the signed interval straddles zero,
+ * the magnitude's lower end is 0 and its upper end the larger of the two ends: wider than the true
+ * quantiles of |w|, never narrower (an honest interval is allowed to be cautious, not bold).
+ */
+export function magnitude(e: Estimate): Estimate {
+  if (e.p05 >= 0) return e;
+  if (e.p95 <= 0) return { p05: -e.p95, median: -e.median, p95: -e.p05 };
+  return { p05: 0, median: Math.abs(e.median), p95: Math.max(-e.p05, e.p95) };
+}
+
+function majority(s: RegimeShares | undefined): keyof RegimeShares | null {
+  if (!s) return null;
+  return (Object.entries(s) as [keyof RegimeShares, number][]).reduce((best, cur) => (cur[1] > best[1] ? cur : best))[0];
+}

@@ -1,0 +1,57 @@
+import { profileById, profileHfovRad } from '../engine/profiles';
+import { sizeBandForLetter } from '../engine/size';
+import type { Band } from '../engine/uncertainty';
+import type { CaseAssumptions } from './schema';
+
+const DEG = Math.PI / 180;
+
+/**
+ * What a case assumes until the user says otherwise: a phone main camera filming landscape video
+ * with stabilisation (a profile of generic classes, common practice), and a transport jet of
+ * aerodrome code letter C (wingspan 24 to < 36 m, ICAO Annex 14 Vol I Table 1-1), seen broadside.
+ * Every figure shown names these, so nobody takes a default for a measurement.
+ */
+export function defaultAssumptions(): CaseAssumptions {
+  const profile = profileById('phone-main-landscape-stabilised');
+  const hf = profileHfovRad(profile);
+  const span = sizeBandForLetter('C', 'wingspan');
+  return {
+    cameraLabel: profile.label,
+    hfovDeg: { lo: hf.lo / DEG, hi: hf.hi / DEG },
+    sizeLabel: 'code letter C wingspan, 24-36 m',
+    objectSizeM: { lo: span.lo, hi: span.hi },
+    aspectDeg: { lo: 90, hi: 90 },
+    // a mast, tree or house the object seems pinned over (common practice)
+    landmarkSizeM: { lo: 8, hi: 30 },
+    objectKind: 'fixed-wing-transport',
+  };
+}
+
+/** The assumptions in the engine's units (radians, metres, m/s). */
+export interface EngineAssumptions {
+  cameraLabel: string;
+  sizeLabel: string;
+  hfov: Band;
+  objectSize: Band;
+  aspect: Band;
+  landmarkSize: Band;
+  observerSpeed: Band | null;
+  objectKind: NonNullable<CaseAssumptions['objectKind']>;
+  /** True when these are the tool's defaults, not the user's. */
+  defaults: boolean;
+}
+
+export function engineAssumptions(a: CaseAssumptions | undefined): EngineAssumptions {
+  const u = a ?? defaultAssumptions();
+  return {
+    cameraLabel: u.cameraLabel,
+    sizeLabel: u.sizeLabel,
+    hfov: { lo: u.hfovDeg.lo * DEG, hi: u.hfovDeg.hi * DEG },
+    objectSize: { ...u.objectSizeM },
+    aspect: { lo: u.aspectDeg.lo * DEG, hi: u.aspectDeg.hi * DEG },
+    landmarkSize: { ...u.landmarkSizeM },
+    observerSpeed: u.observerSpeedMs ? { ...u.observerSpeedMs } : null,
+    objectKind: u.objectKind ?? 'unknown',
+    defaults: a === undefined,
+  };
+}

@@ -1,5 +1,6 @@
 import { newCase, upsertMark, removeMark, withAssumptions, withVideo } from '../../src/case/marks';
 import { caseKey, type CaseAssumptions, type CaseRecord, type Mark, type VideoInfo } from '../../src/case/schema';
+import { stripFragment } from '../../src/case/ids';
 import { validateAssumptions, validateCase, validateMark } from '../../src/case/validate';
 import { browser } from '../shared/browser';
 
@@ -71,4 +72,23 @@ export function setAssumptions(id: string, assumptions: CaseAssumptions): Promis
     validateAssumptions(assumptions, 'assumptions');
     return write(withAssumptions(c, assumptions, Date.now()));
   });
+}
+
+/** The cases of one page address; a record that fails validation is counted, not returned. */
+export async function casesForPage(pageUrl: string): Promise<{ cases: CaseRecord[]; unreadable: number }> {
+  const all = await browser.storage.local.get(null);
+  const want = stripFragment(pageUrl);
+  const cases: CaseRecord[] = [];
+  let unreadable = 0;
+  for (const [key, raw] of Object.entries(all)) {
+    if (!key.startsWith('case:')) continue;
+    try {
+      const c = validateCase(raw);
+      if (c.video.pageUrl === want) cases.push(c);
+    } catch {
+      unreadable++;
+    }
+  }
+  cases.sort((a, b) => b.updatedAt - a.updatedAt);
+  return { cases, unreadable };
 }

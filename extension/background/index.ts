@@ -1,6 +1,6 @@
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { browser, extensionVersion, message } from '../shared/browser';
-import { deleteMark, openCase, putMark, readCase, setAssumptions } from './cases';
+import { casesForPage, deleteMark, openCase, putMark, readCase, setAssumptions } from './cases';
 import { foreignFrameOrigins, injectIntoOrigin, injectOverlay } from './inject';
 import { routeMessages } from './router';
 
@@ -14,6 +14,7 @@ browser.runtime.onMessage.addListener(
     'status/get': async () => ({ version: extensionVersion(), schema: SCHEMA_VERSION, startedAt: STARTED_AT }),
     'case/open': async ({ caseId, video }) => openCase(caseId, video, extensionVersion()),
     'case/get': async ({ caseId }) => readCase(caseId),
+    'cases/forPage': async ({ pageUrl }) => casesForPage(pageUrl),
     'mark/put': async ({ caseId, mark }) => putMark(caseId, mark),
     'mark/remove': async ({ caseId, markId }) => deleteMark(caseId, markId),
     'case/assume': async ({ caseId, assumptions }) => setAssumptions(caseId, assumptions),

@@ -1,6 +1,8 @@
 import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
+import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
+import { CaseView } from './case-view';
 
 function Cautions() {
   return (
@@ -87,6 +89,47 @@ function ForeignFrames() {
   );
 }
 
+/**
+ * The tab this view is about: the one named in the address (the same view opened in a full tab,
+ * `?tab=ID`), else the active tab the popup was opened over.
+ */
+async function targetTab(): Promise<{ id: number; url: string } | null> {
+  const param = new URLSearchParams(location.search).get('tab');
+  const tab = param ? await browser.tabs.get(Number(param)) : (await browser.tabs.query({ active: true, currentWindow: true }))[0];
+  return tab?.id !== undefined && tab.url ? { id: tab.id, url: tab.url } : null;
+}
+
+/** The measured cases of the tab's page; follows storage, so marks and edits appear as they are saved. */
+function Cases() {
+  const [cases, setCases] = useState<CaseRecord[] | null>(null);
+  const [unreadable, setUnreadable] = useState(0);
+  useEffect(() => {
+    let url = '';
+    const load = () =>
+      send('cases/forPage', { pageUrl: url }).then((r) => {
+        setCases(r.cases);
+        setUnreadable(r.unreadable);
+      });
+    const onChanged = (changes: Record<string, unknown>, area: string) => {
+      if (area === 'local' && Object.keys(changes).some((k) => k.startsWith('case:'))) void load();
+    };
+    targetTab().then((tab) => {
+      if (!tab) return setCases([]);
+      url = tab.url;
+      void load();
+    });
+    browser.storage.onChanged.addListener(onChanged);
+    return () => browser.storage.onChanged.removeListener(onChanged);
+  }, []);
+  if (cases === null) return null;
+  return (
+    <section>
+      {cases.length === 0 ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} />)}
+      {unreadable > 0 && <p class="error">{unreadable} stored case(s) failed validation and are not shown; nothing was deleted.</p>}
+    </section>
+  );
+}
+
 function Popup() {
   const [version, setVersion] = useState<string | null>(null);
   useEffect(() => {
@@ -98,6 +141,7 @@ function Popup() {
       <Cautions />
       <MeasureButton />
       <ForeignFrames />
+      <Cases />
       <footer class="muted" data-testid="version">
         {version ? t('popupVersion', version) : '…'}
       </footer>

@@ -10,6 +10,8 @@ export interface RequestMap {
   'status/get': { payload: Record<string, never>; reply: { version: string; schema: number; startedAt: number } };
   /** Open (or create) the case for a video; the overlay calls this when it mounts. */
   'case/open': { payload: { caseId: string; video: VideoInfo }; reply: CaseRecord };
+  /** Every case of a page address (a page may hold several videos), newest first. */
+  'cases/forPage': { payload: { pageUrl: string }; reply: { cases: CaseRecord[]; unreadable: number } };
   /** Read a case, or null if there is none. */
   'case/get': { payload: { caseId: string }; reply: CaseRecord | null };
   /** Add a mark, or replace the one with the same id; saved before the reply. */

@@ -1,0 +1,182 @@
+import { useMemo, useState } from 'preact/hooks';
+import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
+import { defaultAssumptions } from '../../src/case/assumptions';
+import { parseBand } from '../../src/case/bands';
+import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
+import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
+import type { Estimate } from '../../src/engine/stats';
+import { formatEstimate, formatQuantity, type Quantity } from '../../src/engine/units';
+import { send } from '../shared/browser';
+
+const DEG = Math.PI / 180;
+const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, 'metric');
+
+/** mm:ss.sss and seconds, as the summary will show a timestamp. */
+function stamp(t: number): string {
+  const m = Math.floor(t / 60);
+  return `${m}:${(t - 60 * m).toFixed(3).padStart(6, '0')} (${t.toFixed(3)} s)`;
+}
+
+interface FieldDef {
+  key: 'hfovDeg' | 'objectSizeM' | 'aspectDeg' | 'landmarkSizeM' | 'observerSpeedMs';
+  label: string;
+  kind: Quantity;
+  unit: string;
+  /** SI value of one display unit (the field shows degrees, metres, km/h). */
+  scale: number;
+  optional?: boolean;
+  hint: string;
+}
+
+const FIELDS: FieldDef[] = [
+  { key: 'hfovDeg', label: 'Camera field of view (horizontal)', kind: 'angle', unit: 'deg', scale: DEG, hint: 'e.g. 39 to 41 deg' },
+  { key: 'objectSizeM', label: 'Object size (the dimension marked)', kind: 'length', unit: 'm', scale: 1, hint: 'e.g. 24-36 m (code letter C wingspan)' },
+  { key: 'aspectDeg', label: 'Aspect angle (90 = broadside)', kind: 'angle', unit: 'deg', scale: DEG, hint: 'e.g. 75 to 90' },
+  { key: 'landmarkSizeM', label: 'Landmark size', kind: 'length', unit: 'm', scale: 1, hint: 'e.g. 10-20 m' },
+  { key: 'observerSpeedMs', label: 'Observer speed', kind: 'speed', unit: 'km/h', scale: 1 / 3.6, optional: true, hint: 'e.g. 90 km/h ± 10, or leave empty' },
+];
+
+function shown(a: CaseAssumptions, f: FieldDef): string {
+  const r = a[f.key];
+  if (!r) return '';
+  // degrees and metres are stored as such; speed is stored in m/s and shown in km/h
+  const k = f.key === 'observerSpeedMs' ? 3.6 : 1;
+  const lo = +(r.lo * k).toPrecision(4);
+  const hi = +(r.hi * k).toPrecision(4);
+  return lo === hi ? `${lo} ${f.unit}` : `${lo} to ${hi} ${f.unit}`;
+}
+
+/** One assumption: typed with units; a wrong entry is marked here and the last valid one stays. */
+function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (next: CaseAssumptions) => void }) {
+  const [text, setText] = useState(shown(a, f));
+  const [error, setError] = useState<string | null>(null);
+  const id = `field-${f.key}`;
+  const commit = () => {
+    if (f.optional && text.trim() === '') {
+      setError(null);
+      const next = { ...a };
+      delete next[f.key as 'observerSpeedMs'];
+      onSave(next);
+      return;
+    }
+    try {
+      const b = parseBand(text, f.kind, f.label, f.unit);
+      // stored in degrees, metres and m/s
+      const toStored = f.kind === 'angle' ? 1 / DEG : 1;
+      onSave({ ...a, [f.key]: { lo: b.lo * toStored, hi: b.hi * toStored }, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) });
+      setError(null);
+    } catch (e) {
+      setError((e as Error).message);
+    }
+  };
+  return (
+    <div class="field">
+      <label for={id}>{f.label}</label>
+      <input
+        id={id}
+        data-testid={id}
+        value={text}
+        placeholder={f.hint}
+        aria-invalid={error ? 'true' : 'false'}
+        aria-describedby={error ? `${id}-error` : undefined}
+        onInput={(e) => setText((e.target as HTMLInputElement).value)}
+        onBlur={commit}
+        onKeyDown={(e) => e.key === 'Enter' && commit()}
+      />
+      {error && (
+        <div class="error" id={`${id}-error`} role="alert">
+          {error}
+        </div>
+      )}
+    </div>
+  );
+}
+
+function Results({ r }: { r: CaseAnalysis }) {
+  return (
+    <section aria-label="Results" data-testid="results">
+      <h2>Figures, each with its 5–95 % interval</h2>
+      {r.timestamps.length === 0 && <p class="muted">Mark the object’s ends in the overlay to see its range.</p>}
+      {r.timestamps.map((ts) => (
+        <div class="result" data-testid="timestamp">
+          <div class="stamp">{stamp(ts.t)}</div>
+          <div>
+            Span {ts.spanPx.toFixed(1)} px · angular size {formatQuantity(ts.result.angularSize.median, 'angle', 'metric', 3)}
+          </div>
+          <div class="big" data-testid="range">Range {est(ts.result.range, 'distance')}</div>
+          {ts.result.landmarkRange && <div>Landmark range {est(ts.result.landmarkRange, 'distance')}</div>}
+          {ts.result.fixedPointFraction && ts.regime && (
+            <div>
+              Motionless point at {(100 * ts.result.fixedPointFraction.median).toFixed(0)} % of the way to the object ({ts.regime})
+            </div>
+          )}
+          {ts.result.impliedSpeed && (
+            <div data-testid="implied-speed">
+              Implied object speed {est(ts.result.impliedSpeed, 'speed')}
+              {ts.result.impliedSpeed.p95 < 0 ? ' (opposite direction)' : ts.result.impliedSpeed.p05 > 0 ? ' (same direction)' : ''}
+            </div>
+          )}
+        </div>
+      ))}
+      {r.series ? (
+        <div class="result" data-testid="series">
+          <div class="stamp">Range over time</div>
+          <div>Closest approach {est(r.series.closestApproach, 'distance')}</div>
+          <div>Relative speed {est(r.series.relativeSpeed, 'speed')}</div>
+          {r.series.objectSpeed?.opposite && <div>Object speed, opposite direction {est(r.series.objectSpeed.opposite, 'speed')}</div>}
+          {r.series.objectSpeed?.sameSlower && <div>Object speed, same direction and slower {est(r.series.objectSpeed.sameSlower, 'speed')}</div>}
+          {r.series.objectSpeed?.sameFaster && <div>Object speed, same direction and faster {est(r.series.objectSpeed.sameFaster, 'speed')}</div>}
+        </div>
+      ) : (
+        <p class="muted">{r.seriesMissing}</p>
+      )}
+      {r.verdict ? (
+        <div class="result verdict" data-testid="verdict">
+          <div class="big">{VERDICT_SENTENCES[r.verdict.level]}</div>
+          <div class="muted">
+            {r.verdict.rule.text} ({r.verdict.rule.source})
+          </div>
+          {r.verdict.hover && (
+            <div>
+              Hovering would need a headwind of {formatQuantity(r.verdict.hover.headwindNeededMs, 'speed', 'metric')}: Beaufort force {r.verdict.hover.beaufort.force} (
+              {r.verdict.hover.beaufort.description}).
+            </div>
+          )}
+        </div>
+      ) : (
+        <p class="muted">{r.verdictMissing}</p>
+      )}
+      {r.problems.map((p) => (
+        <p class="error">{p}</p>
+      ))}
+    </section>
+  );
+}
+
+export function CaseView({ c }: { c: CaseRecord }) {
+  const a = c.assumptions ?? defaultAssumptions();
+  const r = useMemo(() => analyseCase(c), [c]);
+  const [saveError, setSaveError] = useState<string | null>(null);
+  const save = (next: CaseAssumptions) => {
+    send('case/assume', { caseId: c.id, assumptions: next }).then(
+      () => setSaveError(null),
+      (e: Error) => setSaveError(`Not saved: ${e.message}`),
+    );
+  };
+  return (
+    <article data-testid="case">
+      <h2 class="title">{c.video.pageTitle || c.video.pageUrl}</h2>
+      <p class="muted">
+        {c.marks.length} marks · video {c.video.width}×{c.video.height}
+        {r.assumptions.defaults ? ' · default assumptions' : ''}
+      </p>
+      <section aria-label="Assumptions" class="assumptions">
+        {FIELDS.map((f) => (
+          <Field key={`${c.id}-${f.key}-${JSON.stringify(a[f.key] ?? null)}`} f={f} a={a} onSave={save} />
+        ))}
+        {saveError && <p class="error">{saveError}</p>}
+      </section>
+      <Results r={r} />
+    </article>
+  );
+}

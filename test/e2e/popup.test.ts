@@ -1,0 +1,99 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import type { Page } from 'playwright-core';
+import { E2E_DIST, injectOverlay, launchWithExtension, tabIdFor, type Loaded } from './harness';
+import { startServer, type TestServer } from './server';
+
+/*
+ * The popup's view of a case, opened as a full tab for the tab being measured (`?tab=ID`): the
+ * assumptions typed with units, and the figures checked against the fixture clip's truth
+ * (test/fixtures, an invented scene).
+ */
+const truth = JSON.parse(readFileSync('test/fixtures/clips/pass-tracked.truth.json', 'utf8'));
+let app: Loaded;
+let server: TestServer;
+beforeAll(async () => {
+  server = await startServer();
+  app = await launchWithExtension(E2E_DIST);
+});
+afterAll(async () => {
+  await app?.close();
+  await server?.close();
+});
+
+async function drag(page: Page, box: { x: number; y: number }, p: { x1: number; y1: number; x2: number; y2: number }) {
+  await page.mouse.move(box.x + p.x1, box.y + p.y1);
+  await page.mouse.down();
+  await page.mouse.move(box.x + p.x2, box.y + p.y2, { steps: 5 });
+  await page.mouse.up();
+}
+
+const numbers = (text: string) => {
+  const m = /([-\d.]+) (\S+) \(([-\d.]+) to ([-\d.]+) \S+|([-\d.]+) (\S+) \(([-\d.]+)-([-\d.]+) \S+/.exec(text);
+  if (!m) throw new Error(`no interval in ${text}`);
+  const g = m[1] ? [m[1], m[2], m[3], m[4]] : [m[5], m[6], m[7], m[8]];
+  return { median: Number(g[0]), unit: g[1]!, lo: Number(g[2]), hi: Number(g[3]) };
+};
+
+describe('the popup view of a measured case', () => {
+  it('shows the figures from the marks, follows typed assumptions, and keeps the last valid one on a bad entry', async () => {
+    const page = await app.context.newPage();
+    await page.setViewportSize({ width: 1000, height: 700 });
+    await page.goto(server.url('/plain.html?popup'));
+    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    const f = truth.frames[1];
+    await page.evaluate(async (t) => {
+      const v = document.querySelector('video')!;
+      await new Promise<void>((ok) => {
+        v.addEventListener('seeked', () => ok(), { once: true });
+        v.currentTime = t;
+      });
+    }, f.t);
+    await injectOverlay(app, page.url());
+    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await drag(page, box, f.object);
+    await page.keyboard.press('2');
+    await drag(page, box, f.landmarks.find((l: { id: string }) => l.id === 'mast'));
+    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('2 marks saved');
+
+    const view = await app.context.newPage();
+    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    await expect.poll(() => view.getByTestId('timestamp').count()).toBe(1);
+    expect(await view.getByTestId('case').textContent()).toContain('default assumptions');
+
+    // what the reviewer knows: the camera's field of view to a degree, and the car's speed
+    await view.getByTestId('field-hfovDeg').fill('39 to 41 deg');
+    await view.getByTestId('field-hfovDeg').press('Enter');
+    await view.getByTestId('field-observerSpeedMs').fill('90 km/h ± 4');
+    await view.getByTestId('field-observerSpeedMs').press('Enter');
+    await expect.poll(() => view.getByTestId('implied-speed').count()).toBe(1);
+
+    const range = numbers((await view.getByTestId('range').textContent())!);
+    const k = range.unit === 'km' ? 1000 : 1;
+    expect(truth.frames[1].objectRange).toBeGreaterThanOrEqual(range.lo * k);
+    expect(truth.frames[1].objectRange).toBeLessThanOrEqual(range.hi * k);
+    const speed = numbers((await view.getByTestId('implied-speed').textContent())!);
+    expect(speed.unit).toBe('km/h');
+    // truth: -70 m/s = -252 km/h, the object flying the opposite way
+    expect(-252).toBeGreaterThanOrEqual(speed.lo);
+    expect(-252).toBeLessThanOrEqual(speed.hi);
+    expect(await view.getByTestId('implied-speed').textContent()).toContain('opposite direction');
+    expect(await view.getByTestId('verdict').textContent()).toContain('consistent with ordinary flight');
+
+    // the overlay follows the new assumptions at once
+    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('field of view given');
+
+    // a wrong entry is marked at its field, and the figures keep the last valid value
+    const before = await view.getByTestId('range').textContent();
+    await view.getByTestId('field-hfovDeg').fill('wide');
+    await view.getByTestId('field-hfovDeg').press('Enter');
+    await expect.poll(() => view.locator('#field-hfovDeg-error').textContent()).toContain('Camera field of view');
+    expect(await view.getByTestId('field-hfovDeg').getAttribute('aria-invalid')).toBe('true');
+    expect(await view.getByTestId('range').textContent()).toBe(before);
+    await view.close();
+    await page.close();
+  });
+});

@@ -1,10 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type Browser, type Page } from 'playwright-core';
-import { createServer, type Server } from 'node:http';
 import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import type { AddressInfo } from 'node:net';
-import { chromiumPath } from './harness';
+import { CHROMIUM_ARGS, chromiumPath } from './harness';
+import { startServer, type TestServer } from './server';
 
 /*
  * The committed fixture clips (invented scenes, test/fixtures/) against their truth files. Node-side
@@ -455,65 +454,21 @@ async function measureInPage(a: PageArgs): Promise<Measured> {
 }
 
 describe('fixture clips decode in Chromium and agree with their truth', () => {
-  let server: Server;
-  let base = '';
+  let server: TestServer;
   let browser: Browser;
   let page: Page;
 
   beforeAll(async () => {
-    server = createServer((req, res) => {
-      const path = decodeURIComponent(new URL(req.url ?? '/', 'http://x').pathname);
-      if (path === '/') {
-        res.writeHead(200, { 'content-type': 'text/html' });
-        res.end('<!doctype html><title>fixtures</title><body></body>');
-        return;
-      }
-      const file = join(CLIPS, path.slice(1));
-      if (!/^\/[\w.-]+\.webm$/.test(path) || !existsSync(file)) {
-        res.writeHead(404);
-        res.end();
-        return;
-      }
-      // byte ranges, as a media element asks for them when it seeks
-      const body = readFileSync(file);
-      const m = /^bytes=(\d*)-(\d*)$/.exec(req.headers.range ?? '');
-      if (m) {
-        const start = m[1] ? Number(m[1]) : body.length - Number(m[2]);
-        const end = m[1] && m[2] ? Math.min(Number(m[2]), body.length - 1) : body.length - 1;
-        res.writeHead(206, {
-          'content-type': 'video/webm',
-          'accept-ranges': 'bytes',
-          'content-range': `bytes ${start}-${end}/${body.length}`,
-          'content-length': end - start + 1,
-        });
-        res.end(body.subarray(start, end + 1));
-        return;
-      }
-      res.writeHead(200, { 'content-type': 'video/webm', 'accept-ranges': 'bytes', 'content-length': body.length });
-      res.end(body);
-    });
-    await new Promise<void>((ok) => server.listen(0, '127.0.0.1', ok));
-    base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-    browser = await chromium.launch({
-      executablePath: chromiumPath(),
-      headless: true,
-      args: [
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-        '--no-first-run',
-        '--autoplay-policy=no-user-gesture-required',
-      ],
-    });
+    server = await startServer();
+    browser = await chromium.launch({ executablePath: chromiumPath(), headless: true, args: [...CHROMIUM_ARGS, '--autoplay-policy=no-user-gesture-required'] });
     page = await browser.newPage();
-    await page.goto(`${base}/`);
+    // an empty page of the same origin as the clips, so the canvas stays readable
+    await page.goto(server.url('/novideo.html'));
   });
 
   afterAll(async () => {
     await browser?.close();
-    await new Promise<void>((ok) => (server ? server.close(() => ok()) : ok()));
+    await server?.close();
   });
 
   for (const name of names) {
@@ -521,7 +476,7 @@ describe('fixture clips decode in Chromium and agree with their truth', () => {
       const tr = truthOf(name);
       const f = tr.cameraFrame;
       const args: PageArgs = {
-        url: `${base}/${name}.webm`,
+        url: server.url(`/clips/${name}.webm`),
         fps: tr.video.fps,
         frames: tr.video.frames,
         code: tr.frameCode,

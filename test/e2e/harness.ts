@@ -10,6 +10,19 @@ export function chromiumPath(): string {
   throw new Error('Chromium not found: set CHROME_PATH or install it (apt-get install -y chromium)');
 }
 
+/*
+ * Flags for headless Chromium on this kind of machine: without the background-networking ones it
+ * keeps trying (and failing) to reach the network; no sandbox as root; no GPU here.
+ */
+export const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+];
+
 export interface Loaded {
   context: BrowserContext;
   worker: Worker;
@@ -25,16 +38,7 @@ export async function launchWithExtension(dist = resolve('dist'), options: { col
     executablePath: chromiumPath(),
     headless: true,
     colorScheme: options.colorScheme ?? 'light',
-    args: [
-      `--disable-extensions-except=${dist}`,
-      `--load-extension=${dist}`,
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-    ],
+    args: [`--disable-extensions-except=${dist}`, `--load-extension=${dist}`, ...CHROMIUM_ARGS],
   });
   const worker = context.serviceWorkers()[0] ?? (await context.waitForEvent('serviceworker', { timeout: 30_000 }));
 

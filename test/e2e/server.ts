@@ -25,10 +25,11 @@ export async function startServer(): Promise<TestServer> {
       if (!file.startsWith(base)) throw new Error('outside');
       const body = await readFile(file);
       const type = TYPES[extname(file)] ?? 'application/octet-stream';
-      const range = /bytes=(\d+)-(\d*)/.exec(req.headers.range ?? '');
-      if (range) {
-        const start = Number(range[1]);
-        const end = range[2] ? Math.min(Number(range[2]), body.length - 1) : body.length - 1;
+      // "bytes=a-b", "bytes=a-" and the suffix form "bytes=-n" (the last n bytes)
+      const range = /^bytes=(\d*)-(\d*)$/.exec(req.headers.range ?? '');
+      if (range && (range[1] || range[2])) {
+        const start = range[1] ? Number(range[1]) : Math.max(0, body.length - Number(range[2]));
+        const end = range[1] && range[2] ? Math.min(Number(range[2]), body.length - 1) : body.length - 1;
         res.writeHead(206, { 'content-type': type, 'accept-ranges': 'bytes', 'content-range': `bytes ${start}-${end}/${body.length}`, 'content-length': end - start + 1 });
         res.end(body.subarray(start, end + 1));
         return;

@@ -61,6 +61,8 @@ export class MeasureSession {
   private cursor: Point | null = null;
   private mapping: Mapping | null = null;
   private pendingSave: number | undefined;
+  /** The mark whose nudges wait for their debounced save. */
+  private pendingId: string | null = null;
   private frameRequested = false;
   private src = '';
 
@@ -205,8 +207,8 @@ export class MeasureSession {
 
   /** Takes a stored version of the case, keeping a nudge that is not saved yet. */
   private adopt(c: CaseRecord): void {
-    if (this.pendingSave !== undefined && this.record && this.selected) {
-      const local = this.record.marks.find((m) => m.id === this.selected!.markId);
+    if (this.pendingId !== null && this.record) {
+      const local = this.record.marks.find((m) => m.id === this.pendingId);
       if (local) c = { ...c, marks: c.marks.some((m) => m.id === local.id) ? c.marks.map((m) => (m.id === local.id ? local : m)) : [...c.marks, local] };
     }
     this.record = c;
@@ -588,17 +590,24 @@ export class MeasureSession {
     const marks = i < 0 ? [...this.record.marks, mark] : this.record.marks.map((m) => (m.id === mark.id ? mark : m));
     this.record = { ...this.record, marks };
     this.redraw();
+    // a nudge of another mark still waiting is written now, never dropped
+    if (this.pendingId !== null && this.pendingId !== mark.id) this.flush();
     window.clearTimeout(this.pendingSave);
     this.pendingSave = undefined;
+    this.pendingId = null;
     if (debounce) {
-      this.pendingSave = window.setTimeout(() => void this.save(mark.id), 250);
+      this.pendingId = mark.id;
+      this.pendingSave = window.setTimeout(() => {
+        this.pendingSave = undefined;
+        this.pendingId = null;
+        void this.save(mark.id);
+      }, 250);
       return Promise.resolve();
     }
     return this.save(mark.id);
   }
 
   private async save(markId: string): Promise<void> {
-    this.pendingSave = undefined;
     const mark = this.record?.marks.find((m) => m.id === markId);
     if (!mark) return;
     try {
@@ -610,12 +619,14 @@ export class MeasureSession {
     this.redraw();
   }
 
-  /** Writes a pending nudge now (closing, or the video changing). */
+  /** Writes a pending nudge now (closing, the video changing, or another mark being saved). */
   private flush(): void {
-    if (this.pendingSave === undefined) return;
+    if (this.pendingId === null) return;
     window.clearTimeout(this.pendingSave);
-    const sel = this.selected;
-    if (sel) void this.save(sel.markId);
+    const id = this.pendingId;
+    this.pendingSave = undefined;
+    this.pendingId = null;
+    void this.save(id);
   }
 
   /* ---------------------------------------------------------------------------------------- */

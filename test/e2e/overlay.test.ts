@@ -279,6 +279,22 @@ describe('keyboard, announcements and page changes', () => {
     await page.close();
   });
 
+  it('a nudge still waiting to be saved is not lost when the next mark is placed at once', async () => {
+    const page = await open('/plain.html?nudge-then-mark');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('5');
+    await page.keyboard.press('Enter'); // mark A at the centre, (320, 180)
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
+    await page.keyboard.press('ArrowRight'); // A to (321, 180), saved after a pause...
+    await page.mouse.click(box.x + 100, box.y + 300); // ...but mark B comes first
+    await expect.poll(async () => (await caseFor(page.url())).marks.map((m) => m.points[0]!.x).sort((a, b) => a - b)).toEqual([100, 321]);
+    await page.close();
+  });
+
   it('follows the video when the page scrolls', async () => {
     const page = await open('/tall.html');
     await videoReady(page);

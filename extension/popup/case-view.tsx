@@ -63,8 +63,13 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
       const b = parseBand(text, f.kind, f.label, f.unit);
       // stored in degrees, metres and m/s
       const toStored = f.kind === 'angle' ? 1 / DEG : 1;
-      onSave({ ...a, [f.key]: { lo: b.lo * toStored, hi: b.hi * toStored }, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) });
+      const lo = b.lo * toStored;
+      const hi = b.hi * toStored;
+      const cur = a[f.key];
       setError(null);
+      // leaving a field without changing it writes nothing
+      if (cur && Math.abs(cur.lo - lo) < 1e-9 * Math.max(1, Math.abs(lo)) && Math.abs(cur.hi - hi) < 1e-9 * Math.max(1, Math.abs(hi))) return;
+      onSave({ ...a, [f.key]: { lo, hi }, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) });
     } catch (e) {
       setError((e as Error).message);
     }

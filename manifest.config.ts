@@ -21,6 +21,7 @@ export default defineManifest(({ mode }) => ({
     default_icon: { 16: 'icons/icon-16.png', 32: 'icons/icon-32.png' },
   },
   background: { service_worker: 'extension/background/index.ts', type: 'module' },
+  options_ui: { page: 'extension/options/index.html', open_in_tab: true },
   commands: {
     'measure-video': {
       suggested_key: { default: 'Alt+Shift+M' },

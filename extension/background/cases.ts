@@ -1,6 +1,8 @@
 import { newCase, upsertMark, removeMark, withAssumptions, withVideo } from '../../src/case/marks';
 import { caseKey, type CaseAssumptions, type CaseRecord, type Mark, type VideoInfo } from '../../src/case/schema';
 import { stripFragment } from '../../src/case/ids';
+import { defaultAssumptions } from '../../src/case/assumptions';
+import { DEFAULT_SETTINGS, readSettings, SETTINGS_KEY } from '../../src/case/settings';
 import { validateAssumptions, validateCase, validateMark } from '../../src/case/validate';
 import { browser } from '../shared/browser';
 
@@ -41,7 +43,13 @@ export function openCase(id: string, video: VideoInfo, version: string): Promise
   return serial(id, async () => {
     const now = Date.now();
     const existing = await readCase(id);
-    if (!existing) return write(newCase(id, video, version, now));
+    if (!existing) {
+      // a new case starts from the user's settings when they name a camera or an observer speed
+      const settings = readSettings((await browser.storage.local.get(SETTINGS_KEY))[SETTINGS_KEY]);
+      const fresh = newCase(id, video, version, now);
+      const custom = settings.cameraProfile !== DEFAULT_SETTINGS.cameraProfile || settings.observerSpeedMs;
+      return write(custom ? withAssumptions(fresh, defaultAssumptions(settings), now) : fresh);
+    }
     // refresh what the page tells us now (a title or duration that arrived late), keep the marks
     const changed = existing.video.pageTitle !== video.pageTitle || existing.video.duration !== video.duration;
     return changed ? write(withVideo(existing, { ...existing.video, pageTitle: video.pageTitle, duration: video.duration }, now)) : existing;

@@ -5,11 +5,10 @@ import { parseBand } from '../../src/case/bands';
 import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
 import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
 import type { Estimate } from '../../src/engine/stats';
-import { formatEstimate, formatQuantity, type Quantity } from '../../src/engine/units';
+import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
 import { send } from '../shared/browser';
 
 const DEG = Math.PI / 180;
-const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, 'metric');
 
 /** mm:ss.sss and seconds, as the summary will show a timestamp. */
 function stamp(t: number): string {
@@ -97,7 +96,8 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
   );
 }
 
-function Results({ r }: { r: CaseAnalysis }) {
+function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
+  const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, system);
   return (
     <section aria-label="Results" data-testid="results">
       <h2>Figures, each with its 5–95 % interval</h2>
@@ -106,7 +106,7 @@ function Results({ r }: { r: CaseAnalysis }) {
         <div class="result" data-testid="timestamp">
           <div class="stamp">{stamp(ts.t)}</div>
           <div>
-            Span {ts.spanPx.toFixed(1)} px · angular size {formatQuantity(ts.result.angularSize.median, 'angle', 'metric', 3)}
+            Span {ts.spanPx.toFixed(1)} px · angular size {formatQuantity(ts.result.angularSize.median, 'angle', system, 3)}
           </div>
           <div class="big" data-testid="range">Range {est(ts.result.range, 'distance')}</div>
           {ts.result.landmarkRange && <div>Landmark range {est(ts.result.landmarkRange, 'distance')}</div>}
@@ -143,7 +143,7 @@ function Results({ r }: { r: CaseAnalysis }) {
           </div>
           {r.verdict.hover && (
             <div>
-              Hovering would need a headwind of {formatQuantity(r.verdict.hover.headwindNeededMs, 'speed', 'metric')}: Beaufort force {r.verdict.hover.beaufort.force} (
+              Hovering would need a headwind of {formatQuantity(r.verdict.hover.headwindNeededMs, 'speed', system)}: Beaufort force {r.verdict.hover.beaufort.force} (
               {r.verdict.hover.beaufort.description}).
             </div>
           )}
@@ -158,7 +158,7 @@ function Results({ r }: { r: CaseAnalysis }) {
   );
 }
 
-export function CaseView({ c }: { c: CaseRecord }) {
+export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
   const a = c.assumptions ?? defaultAssumptions();
   const r = useMemo(() => analyseCase(c), [c]);
   const [saveError, setSaveError] = useState<string | null>(null);
@@ -175,13 +175,16 @@ export function CaseView({ c }: { c: CaseRecord }) {
         {c.marks.length} marks · video {c.video.width}×{c.video.height}
         {r.assumptions.defaults ? ' · default assumptions' : ''}
       </p>
+      <p class="muted" data-testid="labels">
+        Camera: {r.assumptions.cameraLabel} · Object: {r.assumptions.sizeLabel}
+      </p>
       <section aria-label="Assumptions" class="assumptions">
         {FIELDS.map((f) => (
           <Field key={`${c.id}-${f.key}-${JSON.stringify(a[f.key] ?? null)}`} f={f} a={a} onSave={save} />
         ))}
         {saveError && <p class="error">{saveError}</p>}
       </section>
-      <Results r={r} />
+      <Results r={r} system={system} />
     </article>
   );
 }

@@ -3,6 +3,8 @@ import { useEffect, useState } from 'preact/hooks';
 import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
 import { CaseView } from './case-view';
+import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
+import type { Settings } from '../../src/case/settings';
 
 function Cautions() {
   return (
@@ -103,6 +105,11 @@ async function targetTab(): Promise<{ id: number; url: string } | null> {
 function Cases() {
   const [cases, setCases] = useState<CaseRecord[] | null>(null);
   const [unreadable, setUnreadable] = useState(0);
+  const [settings, setSettings] = useState<Settings>(DEFAULT_SETTINGS);
+  useEffect(() => {
+    void loadSettings().then(setSettings);
+    return onSettingsChanged(setSettings);
+  }, []);
   useEffect(() => {
     let url = '';
     const load = () =>
@@ -124,7 +131,7 @@ function Cases() {
   if (cases === null) return null;
   return (
     <section>
-      {cases.length === 0 ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} />)}
+      {cases.length === 0 ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} system={settings.system} />)}
       {unreadable > 0 && <p class="error">{unreadable} stored case(s) failed validation and are not shown; nothing was deleted.</p>}
     </section>
   );
@@ -142,6 +149,11 @@ function Popup() {
       <MeasureButton />
       <ForeignFrames />
       <Cases />
+      <p class="muted">
+        <a href="#" onClick={(e) => { e.preventDefault(); void browser.runtime.openOptionsPage(); }}>
+          Settings: units, default camera and observer speed
+        </a>
+      </p>
       <footer class="muted" data-testid="version">
         {version ? t('popupVersion', version) : '…'}
       </footer>

@@ -11,8 +11,8 @@ const DEG = Math.PI / 180;
  * aerodrome code letter C (wingspan 24 to < 36 m, ICAO Annex 14 Vol I Table 1-1), seen broadside.
  * Every figure shown names these, so nobody takes a default for a measurement.
  */
-export function defaultAssumptions(): CaseAssumptions {
-  const profile = profileById('phone-main-landscape-stabilised');
+export function defaultAssumptions(settings?: { cameraProfile: string; observerSpeedMs?: { lo: number; hi: number } }): CaseAssumptions {
+  const profile = profileById(settings?.cameraProfile ?? 'phone-main-landscape-stabilised');
   const hf = profileHfovRad(profile);
   const span = sizeBandForLetter('C', 'wingspan');
   return {
@@ -24,6 +24,7 @@ export function defaultAssumptions(): CaseAssumptions {
     // a mast, tree or house the object seems pinned over (common practice)
     landmarkSizeM: { lo: 8, hi: 30 },
     objectKind: 'fixed-wing-transport',
+    ...(settings?.observerSpeedMs ? { observerSpeedMs: { ...settings.observerSpeedMs } } : {}),
   };
 }
 

@@ -96,4 +96,36 @@ describe('the popup view of a measured case', () => {
     await view.close();
     await page.close();
   });
+
+  it('settings: a new case starts from the chosen camera and observer speed, and figures follow the unit system', async () => {
+    const options = await app.context.newPage();
+    await options.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);
+    await options.getByTestId('system').selectOption('aviation');
+    await options.getByTestId('camera').selectOption('phone-main-landscape');
+    await options.getByTestId('speed').fill('50 kn');
+    await options.getByTestId('speed').press('Enter');
+    await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
+
+    const page = await app.context.newPage();
+    await page.goto(server.url('/plain.html?settings'));
+    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await injectOverlay(app, page.url());
+    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await drag(page, box, truth.frames[0].object);
+
+    const view = await app.context.newPage();
+    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    await expect.poll(() => view.getByTestId('timestamp').count()).toBe(1);
+    // 50 kn is 92.6 km/h: shown back in the field in km/h, the popup's unit for speeds typed
+    expect(await view.getByTestId('field-observerSpeedMs').inputValue()).toBe('92.6 km/h');
+    expect(await view.getByTestId('case').textContent()).toContain('no stabilisation'); // the chosen camera
+    expect(await view.getByTestId('range').textContent()).toMatch(/ (ft|NM) /); // aviation: feet or nautical miles
+    await options.close();
+    await view.close();
+    await page.close();
+  });
 });
+

@@ -1,0 +1,88 @@
+import { render } from 'preact';
+import { useEffect, useState } from 'preact/hooks';
+import { parseBand } from '../../src/case/bands';
+import type { Settings } from '../../src/case/settings';
+import { CAMERA_PROFILES } from '../../src/engine/profiles';
+import { loadSettings, saveSettings } from '../shared/settings';
+
+/** Settings: how figures are shown and what new cases assume. Saved as soon as they change. */
+function Options() {
+  const [s, setS] = useState<Settings | null>(null);
+  const [speed, setSpeed] = useState('');
+  const [status, setStatus] = useState('');
+  const [speedError, setSpeedError] = useState<string | null>(null);
+  useEffect(() => {
+    loadSettings().then((x) => {
+      setS(x);
+      setSpeed(x.observerSpeedMs ? `${+(x.observerSpeedMs.lo * 3.6).toPrecision(4)} to ${+(x.observerSpeedMs.hi * 3.6).toPrecision(4)} km/h` : '');
+    });
+  }, []);
+  if (!s) return null;
+  const save = (next: Settings) => {
+    setS(next);
+    saveSettings(next).then(() => setStatus('Saved.'), (e: Error) => setStatus(`Not saved: ${e.message}`));
+  };
+  const commitSpeed = () => {
+    if (speed.trim() === '') {
+      setSpeedError(null);
+      const next = { ...s };
+      delete next.observerSpeedMs;
+      return save(next);
+    }
+    try {
+      save({ ...s, observerSpeedMs: parseBand(speed, 'speed', 'Default observer speed', 'km/h') });
+      setSpeedError(null);
+    } catch (e) {
+      setSpeedError((e as Error).message);
+    }
+  };
+  return (
+    <main>
+      <h1>Clip Caliper settings</h1>
+      <div class="assumptions">
+        <div class="field">
+          <label for="system">Units for every figure</label>
+          <select id="system" data-testid="system" value={s.system} onChange={(e) => save({ ...s, system: (e.target as HTMLSelectElement).value as Settings['system'] })}>
+            <option value="metric">Metric (m, km, km/h)</option>
+            <option value="imperial">Imperial (ft, mi, mph)</option>
+            <option value="aviation">Aviation (ft, NM, kt)</option>
+          </select>
+        </div>
+        <div class="field">
+          <label for="camera">Camera new cases assume</label>
+          <select id="camera" data-testid="camera" value={s.cameraProfile} onChange={(e) => save({ ...s, cameraProfile: (e.target as HTMLSelectElement).value })}>
+            {CAMERA_PROFILES.map((p) => (
+              <option value={p.id}>
+                {p.label} ({p.hfovDeg.lo.toFixed(0)}–{p.hfovDeg.hi.toFixed(0)}°)
+              </option>
+            ))}
+          </select>
+        </div>
+        <div class="field">
+          <label for="speed">Observer speed new cases assume</label>
+          <input
+            id="speed"
+            data-testid="speed"
+            value={speed}
+            placeholder="e.g. 90 km/h ± 10, or leave empty"
+            aria-invalid={speedError ? 'true' : 'false'}
+            onInput={(e) => setSpeed((e.target as HTMLInputElement).value)}
+            onBlur={commitSpeed}
+            onKeyDown={(e) => e.key === 'Enter' && commitSpeed()}
+          />
+          {speedError && (
+            <div class="error" role="alert">
+              {speedError}
+            </div>
+          )}
+        </div>
+      </div>
+      <p class="muted" role="status">
+        {status}
+      </p>
+      <p class="muted">Everything stays in this browser’s local storage. Never operate the tool, or film, while driving.</p>
+    </main>
+  );
+}
+
+render(<Options />, document.getElementById('app')!);

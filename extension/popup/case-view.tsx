@@ -6,7 +6,9 @@ import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
 import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
 import type { Estimate } from '../../src/engine/stats';
 import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
+import { rangePlot } from '../../src/case/plots';
 import { send } from '../shared/browser';
+import { RangePlotView } from './range-plot';
 
 const DEG = Math.PI / 180;
 
@@ -98,6 +100,7 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
 
 function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
   const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, system);
+  const plot = useMemo(() => rangePlot(r), [r]);
   return (
     <section aria-label="Results" data-testid="results">
       <h2>Figures, each with its 5–95 % interval</h2>
@@ -123,6 +126,7 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
           )}
         </div>
       ))}
+      {plot && <RangePlotView p={plot} system={system} />}
       {r.series ? (
         <div class="result" data-testid="series">
           <div class="stamp">Range over time</div>

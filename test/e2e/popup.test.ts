@@ -127,5 +127,36 @@ describe('the popup view of a measured case', () => {
     await view.close();
     await page.close();
   });
+
+  it('draws the range over time once three timestamps are marked, with a point per timestamp and the fitted pass', async () => {
+    const drift = JSON.parse(readFileSync('test/fixtures/clips/drift-fixed.truth.json', 'utf8'));
+    const page = await app.context.newPage();
+    await page.setViewportSize({ width: 1000, height: 700 });
+    await page.goto(server.url('/drift.html?plot'));
+    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await injectOverlay(app, page.url());
+    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    const box = (await page.locator('video').boundingBox())!;
+    for (const [i, f] of drift.frames.entries()) {
+      await page.evaluate(async (t) => {
+        const v = document.querySelector('video')!;
+        await new Promise<void>((ok) => {
+          v.addEventListener('seeked', () => ok(), { once: true });
+          v.currentTime = t;
+        });
+      }, f.t);
+      await page.locator('clip-caliper-overlay .surface').focus();
+      await page.keyboard.press('1');
+      await drag(page, box, f.object);
+      await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain(`${i + 1} marks saved`);
+    }
+    const view = await app.context.newPage();
+    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    await expect.poll(() => view.getByTestId('plot-point').count()).toBe(drift.frames.length);
+    expect(await view.getByTestId('fit-curve').getAttribute('d')).toMatch(/^M[\d.]+,[\d.]+( L[\d.]+,[\d.]+){10,}$/);
+    expect(await view.getByTestId('range-plot').getAttribute('aria-label')).toContain(`${drift.frames.length} timestamps`);
+    await view.close();
+    await page.close();
+  });
 });
 

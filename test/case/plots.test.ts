@@ -1,0 +1,46 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { niceTicks, rangePlot } from '../../src/case/plots';
+import type { CaseAnalysis } from '../../src/case/analysis';
+
+const est = (m: number, w = 0.1) => ({ p05: m * (1 - w), median: m, p95: m * (1 + w) });
+
+describe('range-over-time plot model', () => {
+  it('draws the fitted pass through R(t) = sqrt(D^2 + V^2 (t - t0)^2) and every timestamp with its interval (invented pass)', () => {
+    // invented: closest approach 500 m at t0 = 7 s, relative speed 87 m/s
+    const ranges = [0.5, 1, 1.5, 2].map((t) => ({ t, r: Math.hypot(500, 87 * (t - 7)) }));
+    const a = {
+      timestamps: ranges.map(({ t, r }) => ({ t, result: { range: est(r) } })),
+      series: { closestApproach: est(500), relativeSpeed: est(87), tClosest: est(7, 0.01) },
+    } as unknown as CaseAnalysis;
+    const p = rangePlot(a)!;
+    expect(p.points).toHaveLength(4);
+    for (const { t, r } of ranges) {
+      const nearest = p.curve.reduce((b, c) => (Math.abs(c.t - t) < Math.abs(b.t - t) ? c : b));
+      expect(Math.abs(nearest.r - Math.hypot(500, 87 * (nearest.t - 7)))).toBeLessThan(1e-9);
+      expect(Math.abs(nearest.r - r) / r).toBeLessThan(0.02);
+    }
+    expect(p.range.min).toBeLessThanOrEqual(Math.min(...p.points.map((x) => x.p05)));
+    expect(p.range.max).toBeGreaterThanOrEqual(Math.max(...p.points.map((x) => x.p95)));
+    expect(p.description).toContain('4 timestamps');
+  });
+
+  it('draws nothing without a fit', () => {
+    expect(rangePlot({ timestamps: [], series: null } as unknown as CaseAnalysis)).toBeNull();
+  });
+
+  it('ticks are round (1, 2 or 5 times a power of ten), evenly spaced, and cover the range (property)', () => {
+    fc.assert(
+      fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.double({ min: 1e-3, max: 1e6, noNaN: true }), (lo, span) => {
+        const { min, max, ticks } = niceTicks(lo, lo + span);
+        expect(min).toBeLessThanOrEqual(lo);
+        expect(max).toBeGreaterThanOrEqual(lo + span - 1e-9 * Math.max(1, Math.abs(lo + span)));
+        const step = ticks[1]! - ticks[0]!;
+        const mant = step / 10 ** Math.floor(Math.log10(step));
+        expect([1, 2, 5, 10].some((m) => Math.abs(mant - m) < 1e-6)).toBe(true);
+        expect(ticks.length).toBeGreaterThanOrEqual(2);
+        expect(ticks.length).toBeLessThanOrEqual(12);
+      }),
+    );
+  });
+});

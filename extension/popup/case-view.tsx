@@ -7,7 +7,8 @@ import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
 import type { Estimate } from '../../src/engine/stats';
 import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
 import { rangePlot } from '../../src/case/plots';
-import { send } from '../shared/browser';
+import { summaryText, type SummaryFormat } from '../../src/case/summary';
+import { extensionVersion, send } from '../shared/browser';
 import { RangePlotView } from './range-plot';
 
 const DEG = Math.PI / 180;
@@ -162,6 +163,35 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
   );
 }
 
+/** Copy the summary anyone can recompute: plain text or Markdown, with a preview of what is copied. */
+function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitSystem }) {
+  const [status, setStatus] = useState('');
+  const text = (format: SummaryFormat) => summaryText(c, r, { format, system, toolVersion: extensionVersion() });
+  const copy = (format: SummaryFormat) =>
+    navigator.clipboard.writeText(text(format)).then(
+      () => setStatus(format === 'markdown' ? 'Summary copied as Markdown.' : 'Summary copied as plain text.'),
+      (e: Error) => setStatus(`Could not copy: ${e.message}`),
+    );
+  return (
+    <section aria-label="Share" class="share">
+      <button type="button" class="secondary" data-testid="copy-text" onClick={() => copy('text')}>
+        Copy summary
+      </button>{' '}
+      <button type="button" class="secondary" data-testid="copy-markdown" onClick={() => copy('markdown')}>
+        Copy as Markdown
+      </button>
+      <span class="muted" role="status" data-testid="copy-status">
+        {' '}
+        {status}
+      </span>
+      <details>
+        <summary>Preview the summary</summary>
+        <pre data-testid="summary-preview">{text('text')}</pre>
+      </details>
+    </section>
+  );
+}
+
 export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
   const a = c.assumptions ?? defaultAssumptions();
   const r = useMemo(() => analyseCase(c), [c]);
@@ -189,6 +219,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
         {saveError && <p class="error">{saveError}</p>}
       </section>
       <Results r={r} system={system} />
+      <Share c={c} r={r} system={system} />
     </article>
   );
 }

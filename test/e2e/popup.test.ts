@@ -83,6 +83,26 @@ describe('the popup view of a measured case', () => {
     expect(await view.getByTestId('implied-speed').textContent()).toContain('opposite direction');
     expect(await view.getByTestId('verdict').textContent()).toContain('consistent with ordinary flight');
 
+    // the summary to share: what the clipboard receives is the preview's text, cautions included
+    // (read back from the test page: permissions cannot be granted to the extension's own origin,
+    // and the browser has one clipboard)
+    await app.context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: new URL(page.url()).origin });
+    const readClipboard = async () => {
+      await page.bringToFront();
+      const text = await page.evaluate(() => navigator.clipboard.readText());
+      await view.bringToFront();
+      return text;
+    };
+    await view.getByTestId('copy-text').click();
+    await expect.poll(() => view.getByTestId('copy-status').textContent()).toContain('copied as plain text');
+    const clip = await readClipboard();
+    expect(clip).toBe(await view.getByTestId('summary-preview').textContent());
+    expect(clip).toContain('Never operate this tool, or film, while driving.');
+    expect(clip).toContain('5-95 %');
+    await view.getByTestId('copy-markdown').click();
+    await expect.poll(() => view.getByTestId('copy-status').textContent()).toContain('as Markdown');
+    expect(await readClipboard()).toMatch(/^# /);
+
     // the overlay follows the new assumptions at once
     await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('field of view given');
 

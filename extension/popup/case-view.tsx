@@ -3,6 +3,7 @@ import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
 import { defaultAssumptions } from '../../src/case/assumptions';
 import { parseBand } from '../../src/case/bands';
 import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
+import { LANE_CYCLES } from '../../src/engine/lanes';
 import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
 import type { Estimate } from '../../src/engine/stats';
 import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
@@ -216,6 +217,35 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
         {FIELDS.map((f) => (
           <Field key={`${c.id}-${f.key}-${JSON.stringify(a[f.key] ?? null)}`} f={f} a={a} onSave={save} />
         ))}
+        <div class="field">
+          <label for="field-lanes">Lane-line cycle on the road (to measure the observer speed from dash passes)</label>
+          <select
+            id="field-lanes"
+            data-testid="field-lanes"
+            value={a.laneCycleId ?? ''}
+            onChange={(e) => {
+              const id = (e.target as HTMLSelectElement).value;
+              const next = { ...a };
+              if (id) next.laneCycleId = id;
+              else delete next.laneCycleId;
+              save(next);
+            }}
+          >
+            <option value="">none: use the speed given above</option>
+            {LANE_CYCLES.map((l) => (
+              <option value={l.id} title={l.source}>
+                {l.label} ({l.cycleM.toFixed(2)} m)
+              </option>
+            ))}
+          </select>
+          {r.laneSpeed && (
+            <div data-testid="lane-speed">
+              Observer speed measured from {r.laneSpeed.passes} dash passes: {formatQuantity(r.laneSpeed.speed.median, 'speed', system)} (
+              {formatQuantity(r.laneSpeed.speed.lo, 'speed', system)} to {formatQuantity(r.laneSpeed.speed.hi, 'speed', system)}); cycle from {r.laneSpeed.source}
+            </div>
+          )}
+          {r.laneSpeedMissing && <div class="muted">{r.laneSpeedMissing}</div>}
+        </div>
         {saveError && <p class="error">{saveError}</p>}
       </section>
       <Results r={r} system={system} />

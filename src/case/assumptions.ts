@@ -37,6 +37,7 @@ export interface EngineAssumptions {
   aspect: Band;
   landmarkSize: Band;
   observerSpeed: Band | null;
+  laneCycleId: string | null;
   objectKind: NonNullable<CaseAssumptions['objectKind']>;
   /** True when these are the tool's defaults, not the user's. */
   defaults: boolean;
@@ -52,6 +53,7 @@ export function engineAssumptions(a: CaseAssumptions | undefined): EngineAssumpt
     aspect: { lo: u.aspectDeg.lo * DEG, hi: u.aspectDeg.hi * DEG },
     landmarkSize: { ...u.landmarkSizeM },
     observerSpeed: u.observerSpeedMs ? { ...u.observerSpeedMs } : null,
+    laneCycleId: u.laneCycleId ?? null,
     objectKind: u.objectKind ?? 'unknown',
     defaults: a === undefined,
   };

@@ -95,6 +95,11 @@ export interface CaseAssumptions {
   landmarkSizeM: Range;
   /** The observer's ground speed, m/s; absent until the user gives or measures it. */
   observerSpeedMs?: Range;
+  /**
+   * The broken lane-line cycle on the road (lanes.ts id): when set and two or more lane-dash
+   * passes are marked, the observer's speed is measured from them instead of taken as given.
+   */
+  laneCycleId?: string;
   /** What the object is taken to be, for the plausibility verdict (plausibility.ts ObjectKind). */
   objectKind?: 'fixed-wing-transport' | 'fixed-wing-light' | 'light-sport' | 'rotorcraft' | 'unknown';
 }

@@ -276,7 +276,11 @@ function assumptionsSection(c: CaseRecord, r: CaseAnalysis, system: UnitSystem):
     ['Landmark size', `${bandText(a.landmarkSize, 'length')} (${origin('landmarkSizeM')})`],
     [
       'Observer speed',
-      a.observerSpeed ? `${bandText(a.observerSpeed, 'speed')} (${origin('observerSpeedMs')})` : 'not given; there is no default, so no implied speed and no verdict',
+      r.laneSpeed
+        ? `${bandText(a.observerSpeed!, 'speed')}, measured from ${r.laneSpeed.passes} lane-dash passes between ${formatStamp(r.laneSpeed.t1)} and ${formatStamp(r.laneSpeed.t2)} on a ${formatQuantity(r.laneSpeed.cycleM, 'length', system)} cycle (${r.laneSpeed.cycleLabel}; ${r.laneSpeed.source})`
+        : a.observerSpeed
+          ? `${bandText(a.observerSpeed, 'speed')} (${origin('observerSpeedMs')})`
+          : `not given; there is no default, so no implied speed and no verdict${r.laneSpeedMissing ? ` (${r.laneSpeedMissing})` : ''}`,
     ],
     ['Kind of object', `${kindLabel} (${origin('objectKind')})`],
   ];

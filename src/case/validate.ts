@@ -1,3 +1,4 @@
+import { LANE_CYCLES } from '../engine/lanes';
 import { MARK_KINDS, POINTS_PER_KIND, SCHEMA_VERSION, type CaseAssumptions, type CaseRecord, type Mark } from './schema';
 
 /** A record that does not match the schema: the message names the path of the first bad field. */
@@ -45,6 +46,9 @@ export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
   range(a.aspectDeg, `${path}.aspectDeg`, 0.01, 179.99);
   range(a.landmarkSizeM, `${path}.landmarkSizeM`, 0.001, 1000);
   if (a.observerSpeedMs !== undefined) range(a.observerSpeedMs, `${path}.observerSpeedMs`, 0, 1000);
+  if (a.laneCycleId !== undefined && !LANE_CYCLES.some((l) => l.id === a.laneCycleId)) {
+    throw new CaseFormatError(`${path}.laneCycleId`, `expected one of ${LANE_CYCLES.map((l) => l.id).join(', ')}`);
+  }
   const kinds = ['fixed-wing-transport', 'fixed-wing-light', 'light-sport', 'rotorcraft', 'unknown'];
   if (a.objectKind !== undefined && !kinds.includes(a.objectKind as string)) {
     throw new CaseFormatError(`${path}.objectKind`, `expected one of ${kinds.join(', ')}`);

@@ -88,6 +88,34 @@ describe('analyseCase on the fixture clips', () => {
   });
 });
 
+describe('observer speed from lane-dash passes', () => {
+  it('n passes on a published cycle give (n - 1) cycles over the time between first and last (invented passes)', () => {
+    // US broken line: 10 ft segment + 30 ft gap = 40 ft = 12.192 m (MUTCD 2009, section 3A.06)
+    const truth = load('pass-tracked');
+    let c = caseOf(truth, { ...defaultAssumptions(), laneCycleId: 'us-broken' }, null);
+    [0.2, 0.7, 1.2, 1.7].forEach((t, i) => {
+      c = upsertMark(c, { id: `d${i}`, kind: 'lane-dash', t, points: [{ x: 300, y: 340 }], edgeSigmaPx: 0.5, mapping, createdAt: 1 }, 2);
+    });
+    const r = analyseCase(c, { draws: 1000 });
+    // 3 cycles x 12.192 m in 1.5 s = 24.384 m/s; a quarter cycle either way: 2.75 to 3.25 cycles
+    expect(r.laneSpeed!.speed.median).toBeCloseTo(24.384, 6);
+    expect(r.laneSpeed!.speed.lo).toBeCloseTo((2.75 * 12.192) / 1.5, 6);
+    expect(r.laneSpeed!.speed.hi).toBeCloseTo((3.25 * 12.192) / 1.5, 6);
+    expect(r.laneSpeed!.source).toMatch(/MUTCD/);
+    // the measured speed is what the figures use
+    expect(r.assumptions.observerSpeed).toEqual({ lo: r.laneSpeed!.speed.lo, hi: r.laneSpeed!.speed.hi });
+  });
+
+  it('says what is missing: a cycle to choose, or more passes', () => {
+    const truth = load('pass-tracked');
+    let c = caseOf(truth, defaultAssumptions(), null);
+    c = upsertMark(c, { id: 'd0', kind: 'lane-dash', t: 0.2, points: [{ x: 300, y: 340 }], edgeSigmaPx: 0.5, mapping, createdAt: 1 }, 2);
+    expect(analyseCase(c, { draws: 500 }).laneSpeedMissing).toMatch(/choose the road’s lane-line cycle/);
+    const withCycle = withAssumptions(c, { ...defaultAssumptions(), laneCycleId: 'uk-lane-fast' }, 4);
+    expect(analyseCase(withCycle, { draws: 500 }).laneSpeedMissing).toMatch(/2 or more lane-dash passes \(1 so far\)/);
+  });
+});
+
 describe('magnitude of a signed interval', () => {
   it('flips a negative interval and widens one that straddles zero', () => {
     expect(magnitude({ p05: -80, median: -70, p95: -60 })).toEqual({ p05: 60, median: 70, p95: 80 });

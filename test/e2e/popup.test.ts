@@ -178,5 +178,45 @@ describe('the popup view of a measured case', () => {
     await view.close();
     await page.close();
   });
+
+  it('measures the observer speed from lane-dash passes marked in the overlay, once the cycle is chosen', async () => {
+    const options = await app.context.newPage();
+    await options.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);
+    await options.getByTestId('system').selectOption('aviation');
+    await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
+    await options.close();
+    const page = await app.context.newPage();
+    await page.setViewportSize({ width: 1000, height: 700 });
+    await page.goto(server.url('/plain.html?lanes'));
+    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await injectOverlay(app, page.url());
+    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    const box = (await page.locator('video').boundingBox())!;
+    // invented passes: a dash's leading edge meets the reference at these times
+    const times = [0.2, 0.7, 1.2, 1.7];
+    for (const [i, t] of times.entries()) {
+      await page.evaluate(async (time) => {
+        const v = document.querySelector('video')!;
+        await new Promise<void>((ok) => {
+          v.addEventListener('seeked', () => ok(), { once: true });
+          v.currentTime = time;
+        });
+      }, t);
+      await page.locator('clip-caliper-overlay .surface').focus();
+      await page.keyboard.press('4');
+      await page.mouse.click(box.x + 300, box.y + 340);
+      await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain(`${i + 1} marks saved`);
+    }
+    const view = await app.context.newPage();
+    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    await expect.poll(() => view.getByTestId('case').textContent()).toContain('choose the road’s lane-line cycle');
+    await view.getByTestId('field-lanes').selectOption('us-broken');
+    // 3 cycles of 40 ft (12.192 m, MUTCD 2009 section 3A.06) in 1.5 s: 24.384 m/s, shown in the
+    // aviation units chosen above: 24.384 / (1852/3600) = 47.4 kt
+    await expect.poll(() => view.getByTestId('lane-speed').textContent()).toContain('4 dash passes');
+    expect(await view.getByTestId('lane-speed').textContent()).toMatch(/47\.4 kt/);
+    await view.close();
+    await page.close();
+  });
 });
 

@@ -121,3 +121,33 @@ export async function stopServiceWorker(app: Loaded): Promise<void> {
   for (const versionId of running) await cdp.send('ServiceWorker.stopWorker', { versionId });
   await cdp.detach();
 }
+
+type PageOrFrame = import('playwright-core').Page | import('playwright-core').Frame;
+
+/** Waits until the page's video (or the one matching `selector`) has its first frame. */
+export async function videoReady(frame: PageOrFrame, selector = 'video'): Promise<void> {
+  await frame.waitForFunction((s) => {
+    const v = document.querySelector(s) as HTMLVideoElement | null;
+    return !!v && v.readyState >= 2 && v.videoWidth > 0;
+  }, selector);
+}
+
+/** Pauses the page's video at t and waits until that frame is shown. */
+export async function seek(frame: PageOrFrame, t: number): Promise<void> {
+  await frame.evaluate(async (time) => {
+    const v = document.querySelector('video') as HTMLVideoElement;
+    v.pause();
+    await new Promise<void>((ok) => {
+      v.addEventListener('seeked', () => ok(), { once: true });
+      v.currentTime = time;
+    });
+  }, t);
+}
+
+/** Waits until the overlay is up and has loaded its case (its readout counts the saved marks). */
+export async function overlayReady(frame: PageOrFrame, marks?: number): Promise<void> {
+  const { expect } = await import('vitest');
+  await expect
+    .poll(() => frame.locator('clip-caliper-overlay [data-testid=readout]').textContent(), { timeout: 10_000 })
+    .toContain(marks === undefined ? 'marks saved' : `${marks} marks saved`);
+}

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Frame, Page } from 'playwright-core';
-import { E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, stopServiceWorker, storedCases, tabIdFor, type Loaded } from './harness';
+import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, stopServiceWorker, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from './server';
 
 /*
@@ -40,31 +40,10 @@ async function open(path: string): Promise<Page> {
 
 const tabIdOf = (url: string) => tabIdFor(app, url);
 
-async function videoReady(frame: Page | Frame, selector = 'video'): Promise<void> {
-  await frame.waitForFunction((s) => {
-    const v = document.querySelector(s) as HTMLVideoElement | null;
-    return !!v && v.readyState >= 2 && v.videoWidth > 0;
-  }, selector);
-}
-
-async function seek(frame: Page | Frame, t: number): Promise<void> {
-  await frame.evaluate(async (time) => {
-    const v = document.querySelector('video') as HTMLVideoElement;
-    v.pause();
-    await new Promise<void>((ok) => {
-      v.addEventListener('seeked', () => ok(), { once: true });
-      v.currentTime = time;
-    });
-  }, t);
-}
-
 const overlays = (f: Page | Frame) => f.locator('clip-caliper-overlay').count();
 const readout = (f: Page | Frame) => f.locator('clip-caliper-overlay [data-testid=readout]');
 
-/** Waits until the overlay is up and has loaded its case (its readout counts the saved marks). */
-async function ready(f: Page | Frame): Promise<void> {
-  await expect.poll(() => readout(f).textContent(), { timeout: 10_000 }).toContain('marks saved');
-}
+const ready = (f: Page | Frame) => overlayReady(f);
 
 /** The one case stored so far for a page address, with its marks. */
 async function caseFor(pageUrl: string): Promise<{ id: string; marks: { kind: string; t: number; points: { x: number; y: number }[]; edgeSigmaPx: number }[] }> {

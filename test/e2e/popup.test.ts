@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
-import { E2E_DIST, injectOverlay, launchWithExtension, tabIdFor, type Loaded } from './harness';
+import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from './server';
 
 /*
@@ -20,6 +20,14 @@ afterAll(async () => {
   await app?.close();
   await server?.close();
 });
+
+async function setUnits(system: 'metric' | 'imperial' | 'aviation'): Promise<void> {
+  const options = await app.context.newPage();
+  await options.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);
+  await options.getByTestId('system').selectOption(system);
+  await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
+  await options.close();
+}
 
 async function drag(page: Page, box: { x: number; y: number }, p: { x1: number; y1: number; x2: number; y2: number }) {
   await page.mouse.move(box.x + p.x1, box.y + p.y1);
@@ -40,24 +48,18 @@ describe('the popup view of a measured case', () => {
     const page = await app.context.newPage();
     await page.setViewportSize({ width: 1000, height: 700 });
     await page.goto(server.url('/plain.html?popup'));
-    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await videoReady(page);
     const f = truth.frames[1];
-    await page.evaluate(async (t) => {
-      const v = document.querySelector('video')!;
-      await new Promise<void>((ok) => {
-        v.addEventListener('seeked', () => ok(), { once: true });
-        v.currentTime = t;
-      });
-    }, f.t);
+    await seek(page, f.t);
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    await overlayReady(page);
     const box = (await page.locator('video').boundingBox())!;
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('1');
     await drag(page, box, f.object);
     await page.keyboard.press('2');
     await drag(page, box, f.landmarks.find((l: { id: string }) => l.id === 'mast'));
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('2 marks saved');
+    await overlayReady(page, 2);
 
     const view = await app.context.newPage();
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
@@ -128,9 +130,9 @@ describe('the popup view of a measured case', () => {
 
     const page = await app.context.newPage();
     await page.goto(server.url('/plain.html?settings'));
-    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await videoReady(page);
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    await overlayReady(page);
     const box = (await page.locator('video').boundingBox())!;
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('1');
@@ -153,22 +155,16 @@ describe('the popup view of a measured case', () => {
     const page = await app.context.newPage();
     await page.setViewportSize({ width: 1000, height: 700 });
     await page.goto(server.url('/drift.html?plot'));
-    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await videoReady(page);
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    await overlayReady(page);
     const box = (await page.locator('video').boundingBox())!;
     for (const [i, f] of drift.frames.entries()) {
-      await page.evaluate(async (t) => {
-        const v = document.querySelector('video')!;
-        await new Promise<void>((ok) => {
-          v.addEventListener('seeked', () => ok(), { once: true });
-          v.currentTime = t;
-        });
-      }, f.t);
+      await seek(page, f.t);
       await page.locator('clip-caliper-overlay .surface').focus();
       await page.keyboard.press('1');
       await drag(page, box, f.object);
-      await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain(`${i + 1} marks saved`);
+      await overlayReady(page, i + 1);
     }
     const view = await app.context.newPage();
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
@@ -180,32 +176,22 @@ describe('the popup view of a measured case', () => {
   });
 
   it('measures the observer speed from lane-dash passes marked in the overlay, once the cycle is chosen', async () => {
-    const options = await app.context.newPage();
-    await options.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);
-    await options.getByTestId('system').selectOption('aviation');
-    await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
-    await options.close();
+    await setUnits('aviation');
     const page = await app.context.newPage();
     await page.setViewportSize({ width: 1000, height: 700 });
     await page.goto(server.url('/plain.html?lanes'));
-    await page.waitForFunction(() => (document.querySelector('video') as HTMLVideoElement).readyState >= 2);
+    await videoReady(page);
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('marks saved');
+    await overlayReady(page);
     const box = (await page.locator('video').boundingBox())!;
     // invented passes: a dash's leading edge meets the reference at these times
     const times = [0.2, 0.7, 1.2, 1.7];
     for (const [i, t] of times.entries()) {
-      await page.evaluate(async (time) => {
-        const v = document.querySelector('video')!;
-        await new Promise<void>((ok) => {
-          v.addEventListener('seeked', () => ok(), { once: true });
-          v.currentTime = time;
-        });
-      }, t);
+      await seek(page, t);
       await page.locator('clip-caliper-overlay .surface').focus();
       await page.keyboard.press('4');
       await page.mouse.click(box.x + 300, box.y + 340);
-      await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain(`${i + 1} marks saved`);
+      await overlayReady(page, i + 1);
     }
     const view = await app.context.newPage();
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);

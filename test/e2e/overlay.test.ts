@@ -45,6 +45,24 @@ const readout = (f: Page | Frame) => f.locator('clip-caliper-overlay [data-testi
 
 const ready = (f: Page | Frame) => overlayReady(f);
 
+/** Opens a page and calls the overlay up over its video, ready to mark. */
+async function withOverlay(path: string): Promise<Page> {
+  const page = await open(path);
+  await videoReady(page);
+  await injectOverlay(app, page.url());
+  await ready(page);
+  return page;
+}
+
+/** As withOverlay, with the surface focused and a tool chosen. */
+async function measuring(path: string, tool: string): Promise<{ page: Page; box: { x: number; y: number; width: number; height: number } }> {
+  const page = await withOverlay(path);
+  const box = (await page.locator('video').boundingBox())!;
+  await page.locator('clip-caliper-overlay .surface').focus();
+  await page.keyboard.press(tool);
+  return { page, box };
+}
+
 /** The one case stored so far for a page address, with its marks. */
 async function caseFor(pageUrl: string): Promise<{ id: string; marks: { kind: string; t: number; points: { x: number; y: number }[]; edgeSigmaPx: number }[] }> {
   const cases = Object.values(await storedCases(app)) as { id: string; video: { pageUrl: string }; marks: never[] }[];
@@ -141,10 +159,7 @@ describe('calling the overlay up', () => {
   });
 
   it('still allows marking a live stream, with a notice', async () => {
-    const page = await open('/live.html');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
+    const page = await withOverlay('/live.html');
     expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('Live stream');
     const box = (await page.locator('video').boundingBox())!;
     await page.locator('clip-caliper-overlay .surface').focus();
@@ -238,10 +253,7 @@ describe('CSS pixels to intrinsic pixels', () => {
 
 describe('keyboard, announcements and page changes', () => {
   it('marks from the keyboard alone: Enter places, arrows nudge by 1, 10 and 0.1 px, and changes are announced', async () => {
-    const page = await open('/plain.html?keys');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
+    const page = await withOverlay('/plain.html?keys');
     const live = page.locator('clip-caliper-overlay [data-testid=live]');
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('5'); // one point: the cursor starts at the picture's centre (320, 180)
@@ -259,13 +271,7 @@ describe('keyboard, announcements and page changes', () => {
   });
 
   it('a nudge still waiting to be saved is not lost when the next mark is placed at once', async () => {
-    const page = await open('/plain.html?nudge-then-mark');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
-    const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
-    await page.keyboard.press('5');
+    const { page, box } = await measuring('/plain.html?nudge-then-mark', '5');
     await page.keyboard.press('Enter'); // mark A at the centre, (320, 180)
     await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
     await page.keyboard.press('ArrowRight'); // A to (321, 180), saved after a pause...
@@ -294,10 +300,7 @@ describe('keyboard, announcements and page changes', () => {
   });
 
   it('ends its session when the page removes the video', async () => {
-    const page = await open('/plain.html?remove');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
+    const page = await withOverlay('/plain.html?remove');
     await page.evaluate(() => document.querySelector('video')!.remove());
     await expect.poll(() => overlays(page)).toBe(0);
     // and calling it up again says there is nothing to measure
@@ -309,10 +312,7 @@ describe('keyboard, announcements and page changes', () => {
 
 describe('fullscreen and pixel density', () => {
   it('follows the video into fullscreen: in the top layer when the video itself is fullscreen', async () => {
-    const page = await open('/fullscreen.html?video');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
+    const page = await withOverlay('/fullscreen.html?video');
     await page.click('#fs-video');
     await expect.poll(() => page.evaluate(() => document.fullscreenElement?.tagName)).toBe('VIDEO');
     await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')!.matches(':popover-open'))).toBe(true);
@@ -326,10 +326,7 @@ describe('fullscreen and pixel density', () => {
   });
 
   it('moves inside a fullscreen container that holds the video', async () => {
-    const page = await open('/fullscreen.html?box');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
+    const page = await withOverlay('/fullscreen.html?box');
     await page.click('#fs-box');
     await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.id)).toBe('box');
     await page.evaluate(() => document.exitFullscreen());
@@ -451,13 +448,7 @@ describe('marking the fixture clip', () => {
   });
 
   it('marks survive a page reload and a stopped service worker', async () => {
-    const page = await open('/plain.html?survive');
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await ready(page);
-    const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
-    await page.keyboard.press('5');
+    const { page, box } = await measuring('/plain.html?survive', '5');
     await page.mouse.click(box.x + 100, box.y + 100);
     await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
 

@@ -446,7 +446,7 @@ function methodSection(r: CaseAnalysis): Section {
       {
         kind: 'list',
         items: [
-          'Pinhole camera with exact ray angles: a column u has bearing atan((u - W/2) / f), f = (W/2) / tan(HFOV/2); the angle between two ends is the difference of their bearings.',
+          'Pinhole camera with exact ray angles: a pixel (x, y) looks along the ray (x - W/2, y - H/2, f), f = (W/2) / tan(HFOV/2); the angle between two ends is the angle between their rays, exact anywhere in the frame.',
           'Range from angular size: R = L sin(a) / (2 tan(theta/2)) for true size L, aspect angle a and angular size theta.',
           'Sight-line fixed point by the intercept theorem (Euclid, Elements VI.2): the landmark the object seems pinned over lies d / R of the way along the sight line.',
           'Implied speed from a landmark on the same sight line: w = u (1 - R/d), u the observer’s speed, d the landmark’s range.',

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, type Loaded } from '../e2e/harness';
-import { startServer, type TestServer } from '../e2e/server';
+import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
  * The overlay part of `npm run bench`: what the injected file costs to ship, to call up and to drag

@@ -3,7 +3,7 @@ import { chromium, type Browser, type Page } from 'playwright-core';
 import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { CHROMIUM_ARGS, chromiumPath } from './harness';
-import { startServer, type TestServer } from './server';
+import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
  * The committed fixture clips (invented scenes, test/fixtures/) against their truth files. Node-side

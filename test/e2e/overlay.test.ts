@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Frame, Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, stopServiceWorker, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
-import { startServer, type TestServer } from './server';
+import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
  * The measuring overlay in real Chromium with the e2e build (host permission for the local test

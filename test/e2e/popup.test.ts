@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, tabIdFor, videoReady, type Loaded } from './harness';
-import { startServer, type TestServer } from './server';
+import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
  * The popup's view of a case, opened as a full tab for the tab being measured (`?tab=ID`): the

@@ -3,8 +3,9 @@ import { readFile } from 'node:fs/promises';
 import { extname, join, normalize, resolve } from 'node:path';
 
 /*
- * A tiny static server for the browser tests: test pages at /, fixture clips at /clips/. It
- * answers Range requests, because Chromium's media stack seeks with them.
+ * A tiny static server on 127.0.0.1 for the demo launcher and the browser tests: pages from one
+ * folder at /, the fixture clips at /clips/. It answers Range requests, because Chromium's media
+ * stack seeks with them.
  */
 const TYPES: Record<string, string> = { '.html': 'text/html; charset=utf-8', '.webm': 'video/webm', '.mp4': 'video/mp4', '.json': 'application/json', '.js': 'text/javascript' };
 
@@ -14,8 +15,8 @@ export interface TestServer {
   close(): Promise<void>;
 }
 
-export async function startServer(): Promise<TestServer> {
-  const pages = resolve('test/e2e/pages');
+export async function startServer(pagesDir = 'test/e2e/pages'): Promise<TestServer> {
+  const pages = resolve(pagesDir);
   const clips = resolve('test/fixtures/clips');
   const server: Server = createServer(async (req, res) => {
     try {

@@ -9,6 +9,7 @@ import type { Estimate } from '../../src/engine/stats';
 import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
 import { rangePlot } from '../../src/case/plots';
 import { summaryText, type SummaryFormat } from '../../src/case/summary';
+import { toCaseFile } from '../../src/case/casefile';
 import { extensionVersion, send } from '../shared/browser';
 import { RangePlotView } from './range-plot';
 
@@ -164,6 +165,18 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
   );
 }
 
+/** The case file a colleague recomputes with `npm run solve -- FILE`; named by case and date. */
+function exportCase(c: CaseRecord): void {
+  const json = JSON.stringify(toCaseFile(c, extensionVersion()), null, 2);
+  const day = new Date(c.updatedAt).toISOString().slice(0, 10);
+  const title = (c.video.pageTitle || 'case').replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40) || 'case';
+  const a = document.createElement('a');
+  a.href = URL.createObjectURL(new Blob([json], { type: 'application/json' }));
+  a.download = `clip-caliper-${title}-${day}-${c.id.slice(0, 8)}.json`;
+  a.click();
+  URL.revokeObjectURL(a.href);
+}
+
 /** Copy the summary anyone can recompute: plain text or Markdown, with a preview of what is copied. */
 function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitSystem }) {
   const [status, setStatus] = useState('');
@@ -180,6 +193,9 @@ function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitS
       </button>{' '}
       <button type="button" class="secondary" data-testid="copy-markdown" onClick={() => copy('markdown')}>
         Copy as Markdown
+      </button>
+      <button type="button" class="secondary" data-testid="export" onClick={() => exportCase(c)}>
+        Export case file
       </button>
       <span class="muted" role="status" data-testid="copy-status">
         {' '}

@@ -1,5 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { execFile } from 'node:child_process';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { promisify } from 'node:util';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
@@ -203,6 +207,50 @@ describe('the popup view of a measured case', () => {
     expect(await view.getByTestId('lane-speed').textContent()).toMatch(/47\.4 kt/);
     await view.close();
     await page.close();
+  });
+
+  it('a colleague recomputes the exported case file with `npm run solve` to the same text, byte for byte', async () => {
+    await setUnits('metric');
+    const page = await app.context.newPage();
+    await page.setViewportSize({ width: 1000, height: 700 });
+    await page.goto(server.url('/plain.html?recompute'));
+    await videoReady(page);
+    const f = truth.frames[2];
+    await seek(page, f.t);
+    await injectOverlay(app, page.url());
+    await overlayReady(page);
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await drag(page, box, f.object);
+    await overlayReady(page, 1);
+
+    const view = await app.context.newPage();
+    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    await expect.poll(() => view.getByTestId('timestamp').count()).toBe(1);
+    const [download] = await Promise.all([view.waitForEvent('download'), view.getByTestId('export').click()]);
+    expect(download.suggestedFilename()).toMatch(/^clip-caliper-Invented-clip-plain-\d{4}-\d{2}-\d{2}-[0-9a-f]{8}\.json$/);
+    const file = join(mkdtempSync(join(tmpdir(), 'clip-caliper-export-')), download.suggestedFilename());
+    await download.saveAs(file);
+    const { stdout } = await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', file, '--units', 'metric']);
+    expect(stdout).toBe(await view.getByTestId('summary-preview').textContent());
+    // and --json gives every result with its interval
+    const json = JSON.parse((await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', file, '--json'])).stdout);
+    expect(json.analysis.timestamps[0].result.range).toEqual({ p05: expect.any(Number), median: expect.any(Number), p95: expect.any(Number) });
+    await view.close();
+    await page.close();
+  });
+
+  it('the recompute refuses a spoiled file, naming the field', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'clip-caliper-bad-'));
+    const bad = join(dir, 'bad.json');
+    writeFileSync(bad, JSON.stringify({ format: 'clip-caliper-case', schema: 1, case: { schema: 1, id: 'x' } }));
+    const err = await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', bad]).then(
+      () => null,
+      (e: { stderr: string; code: number }) => e,
+    );
+    expect(err?.code).toBe(1);
+    expect(err?.stderr).toContain('file.case.video: expected an object');
   });
 });
 

@@ -1,0 +1,42 @@
+/*
+ * `npm run solve -- FILE [--json] [--units metric|imperial|aviation]`: recomputes a case file in
+ * Node, with no browser, and prints the same summary text as the popup copies (byte for byte, for
+ * the same units), or every result with its interval as JSON. A second reviewer checks a shared case
+ * this way. Errors name the field.
+ */
+import { readFileSync, statSync } from 'node:fs';
+import { analyseCase } from '../../src/case/analysis';
+import { MAX_CASE_FILE_BYTES, parseCaseFile } from '../../src/case/casefile';
+import { summaryText } from '../../src/case/summary';
+import type { UnitSystem } from '../../src/engine/units';
+
+const args = process.argv.slice(2);
+const file = args.find((a) => !a.startsWith('--') && args[args.indexOf(a) - 1] !== '--units');
+const units = (args.includes('--units') ? args[args.indexOf('--units') + 1] : 'metric') as UnitSystem;
+const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
+
+function fail(message: string): never {
+  process.stderr.write(`solve: ${message}\n`);
+  process.exit(1);
+}
+
+if (!file) fail('usage: npm run solve -- FILE [--json] [--units metric|imperial|aviation]');
+if (!['metric', 'imperial', 'aviation'].includes(units)) fail(`--units: got "${units}"; allowed: metric, imperial, aviation`);
+let size = 0;
+try {
+  size = statSync(file).size;
+} catch {
+  fail(`${file}: no such file`);
+}
+if (size > MAX_CASE_FILE_BYTES) fail(`${file}: larger than ${MAX_CASE_FILE_BYTES} bytes`);
+try {
+  const c = parseCaseFile(readFileSync(file, 'utf8'));
+  const analysis = analyseCase(c);
+  if (args.includes('--json')) {
+    process.stdout.write(`${JSON.stringify({ case: c.id, toolVersion: pkg.version, analysis }, (k, v) => (k === 'objectMark' || k === 'landmarkMark' ? v?.id ?? null : v), 2)}\n`);
+  } else {
+    process.stdout.write(summaryText(c, analysis, { format: 'text', system: units, toolVersion: pkg.version }));
+  }
+} catch (e) {
+  fail((e as Error).message);
+}

@@ -9,7 +9,8 @@ export default defineConfig({
       {
         test: {
           name: 'unit',
-          include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts'],
+          // pure modules only: test/extension holds tests of the shell's DOM-free helpers
+          include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts', 'test/extension/**/*.test.ts'],
           environment: 'node',
         },
       },

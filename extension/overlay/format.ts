@@ -1,9 +1,12 @@
+import { FOOT_M, KNOT_MS, MPH_MS, NAUTICAL_MILE_M, STATUTE_MILE_M } from '../../src/engine/constants';
 import type { Estimate } from '../../src/engine/stats';
+import type { UnitSystem } from '../../src/engine/units';
 
 /*
- * Plain-number formatting for the overlay's live readout. The popup formats through the units
- * layer (mathjs); the overlay bundle must stay free of it, so it prints metric with 3 significant
- * figures.
+ * Plain-number formatting for the overlay's live readout, in the unit system chosen in the
+ * settings. The popup formats through the units layer (mathjs); the overlay bundle must stay free
+ * of it, so the few conversions it needs are written out here from the exact constants
+ * (NIST SP 811 App. B.8, in constants.ts), with 3 significant figures.
  */
 
 export function sig3(v: number): string {
@@ -15,25 +18,33 @@ export function sig3(v: number): string {
   return v.toPrecision(3);
 }
 
-export function distance(m: number, unitKm = m >= 1000): string {
-  return unitKm ? `${sig3(m / 1000)} km` : `${sig3(m)} m`;
+/** The unit a distance of this size is shown in, per system: [name, metres per unit]. */
+function distanceUnit(m: number, system: UnitSystem): [string, number] {
+  if (system === 'metric') return m >= 1000 ? ['km', 1000] : ['m', 1];
+  if (system === 'imperial') return m >= STATUTE_MILE_M ? ['mi', STATUTE_MILE_M] : ['ft', FOOT_M];
+  return m >= NAUTICAL_MILE_M ? ['NM', NAUTICAL_MILE_M] : ['ft', FOOT_M];
 }
 
-export function distanceEstimate(e: Estimate): string {
-  const km = e.median >= 1000;
-  return `${distance(e.median, km)} (${distance(e.p05, km).replace(/ k?m$/, '')}–${distance(e.p95, km)}, 5–95 %)`;
+const SPEED_UNITS: Record<UnitSystem, [string, number]> = { metric: ['km/h', 1 / 3.6], imperial: ['mph', MPH_MS], aviation: ['kt', KNOT_MS] };
+
+export function distance(m: number, system: UnitSystem = 'metric'): string {
+  const [u, k] = distanceUnit(m, system);
+  return `${sig3(m / k)} ${u}`;
+}
+
+/** "2.41 km (1.98–2.90 km, 5–95 %)": the interval in the median's unit. */
+export function distanceEstimate(e: Estimate, system: UnitSystem = 'metric'): string {
+  const [u, k] = distanceUnit(e.median, system);
+  return `${sig3(e.median / k)} ${u} (${sig3(e.p05 / k)}–${sig3(e.p95 / k)} ${u}, 5–95 %)`;
 }
 
 export function degrees(rad: number): string {
   return `${sig3((rad * 180) / Math.PI)}°`;
 }
 
-export function speedKmh(ms: number): string {
-  return `${sig3(ms * 3.6)} km/h`;
-}
-
-export function speedEstimate(e: Estimate): string {
-  return `${speedKmh(e.median)} (${sig3(e.p05 * 3.6)}–${speedKmh(e.p95)}, 5–95 %)`;
+export function speedEstimate(e: Estimate, system: UnitSystem = 'metric'): string {
+  const [u, k] = SPEED_UNITS[system];
+  return `${sig3(e.median / k)} ${u} (${sig3(e.p05 / k)}–${sig3(e.p95 / k)} ${u}, 5–95 %)`;
 }
 
 /** Seconds as m:ss.sss, as the summary shows timestamps. */

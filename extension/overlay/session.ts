@@ -5,6 +5,8 @@ import { snapAlong } from '../../src/engine/snap';
 import { validateCase } from '../../src/case/validate';
 import { caseKey } from '../../src/case/schema';
 import { browser, send } from '../shared/browser';
+import { loadSettings, onSettingsChanged } from '../shared/settings';
+import type { UnitSystem } from '../../src/engine/units';
 import { DEFAULT_EDGE_SIGMA_PX, liveAssumptionsFor, type LiveAssumptions } from './assumptions';
 import { forceStyle, h, svg } from './dom';
 import { degrees, distanceEstimate, speedEstimate, timestamp } from './format';
@@ -52,6 +54,8 @@ export class MeasureSession {
   private readonly host: OverlayHost;
   private readonly pixels: FramePixels;
   private assumptions: LiveAssumptions = liveAssumptionsFor(undefined);
+  /** The units chosen in the settings, followed live. */
+  private system: UnitSystem = 'metric';
   private caseId = '';
   private record: CaseRecord | null = null;
   private tool: MarkKind = 'object-span';
@@ -165,6 +169,12 @@ export class MeasureSession {
     };
     browser.storage.onChanged.addListener(onStored);
     signal.addEventListener('abort', () => browser.storage.onChanged.removeListener(onStored));
+    const useSettings = (st: { system: UnitSystem }) => {
+      this.system = st.system;
+      this.redraw();
+    };
+    void loadSettings().then(useSettings, () => undefined);
+    signal.addEventListener('abort', onSettingsChanged(useSettings));
     // a video removed from the page ends its session
     const mo = new MutationObserver(() => {
       if (!v.isConnected) void this.close();
@@ -689,11 +699,11 @@ export class MeasureSession {
     }
     const lines: (HTMLElement | string)[] = [
       head,
-      h('div', { class: 'big', 'data-testid': 'range' }, `Range ${distanceEstimate(f.result.range)}`),
+      h('div', { class: 'big', 'data-testid': 'range' }, `Range ${distanceEstimate(f.result.range, this.system)}`),
       h('div', {}, `Span ${f.spanPx.toFixed(1)} px · angular size ${degrees(f.result.angularSize.median)}`),
     ];
-    if (f.result.landmarkRange) lines.push(h('div', {}, `Landmark range ${distanceEstimate(f.result.landmarkRange)}`));
-    if (f.result.impliedSpeed) lines.push(h('div', {}, `Implied object speed ${speedEstimate(f.result.impliedSpeed)}`));
+    if (f.result.landmarkRange) lines.push(h('div', {}, `Landmark range ${distanceEstimate(f.result.landmarkRange, this.system)}`));
+    if (f.result.impliedSpeed) lines.push(h('div', {}, `Implied object speed ${speedEstimate(f.result.impliedSpeed, this.system)}`));
     const aspect = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9 ? 'broadside' : 'at the aspect given';
     lines.push(h('div', { class: 'muted' }, `Assuming ${a.sizeLabel}, ${aspect}; ${a.cameraLabel.toLowerCase()}.`));
     this.readoutEl.replaceChildren(...lines);
@@ -703,7 +713,7 @@ export class MeasureSession {
     if (mark.kind !== 'object-span' || !this.record) return;
     const frame = cameraFrame(this.record.marks, this.video.videoWidth, this.video.videoHeight);
     const f = liveFigures(mark, null, frame, this.assumptions);
-    if (f) this.say(`Object span ${f.spanPx.toFixed(1)} px, angular size ${degrees(f.result.angularSize.median)}, range ${distanceEstimate(f.result.range)}. Saved.`);
+    if (f) this.say(`Object span ${f.spanPx.toFixed(1)} px, angular size ${degrees(f.result.angularSize.median)}, range ${distanceEstimate(f.result.range, this.system)}. Saved.`);
     else this.say('Saved.');
   }
 

@@ -149,6 +149,8 @@ describe('the popup view of a measured case', () => {
     expect(await view.getByTestId('field-observerSpeedMs').inputValue()).toBe('92.6 km/h');
     expect(await view.getByTestId('case').textContent()).toContain('no stabilisation'); // the chosen camera
     expect(await view.getByTestId('range').textContent()).toMatch(/ (ft|NM) /); // aviation: feet or nautical miles
+    // the overlay's live readout follows the same setting
+    expect(await page.locator('clip-caliper-overlay [data-testid=range]').textContent()).toMatch(/ (ft|NM) \(/);
     await options.close();
     await view.close();
     await page.close();

@@ -12,6 +12,7 @@ import { summaryText, type SummaryFormat } from '../../src/case/summary';
 import { toCaseFile } from '../../src/case/casefile';
 import { extensionVersion, send } from '../shared/browser';
 import { RangePlotView } from './range-plot';
+import { PlanViewSvg } from './plan-view';
 
 const DEG = Math.PI / 180;
 
@@ -130,6 +131,7 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
         </div>
       ))}
       {plot && <RangePlotView p={plot} system={system} />}
+      <PlanViewSvg r={r} system={system} />
       {r.series ? (
         <div class="result" data-testid="series">
           <div class="stamp">Range over time</div>

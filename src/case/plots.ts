@@ -59,3 +59,71 @@ export function niceTicks(lo: number, hi: number, target = 5): { min: number; ma
   for (let i = 0; min + i * step <= max + step * 1e-9; i++) ticks.push(+(min + i * step).toPrecision(12));
   return { min, max, ticks };
 }
+
+/*
+ * The plan view: the ground seen from above, to scale, for parallel tracks. The range-over-time
+ * fit gives the pass relative to the observer (closest approach D' across, relative speed V along,
+ * closest at t0); the observer's speed places the observer on its road at u t; the direction of
+ * travel chosen (opposite by default, when the figures allow it) fixes the sign. Every sight line
+ * then passes through one ground point, the motionless point F, at D u / (u - w) from the road
+ * (DESIGN.md; the intercept theorem, Euclid Elements VI.2). D' includes the object's height above
+ * the camera, so the track is drawn at D' from the road: the plan is exact for level flight at the
+ * camera's height and foreshortens nothing else.
+ */
+export interface PlanView {
+  direction: 'opposite' | 'same-slower' | 'same-faster';
+  /** Metres: x along the road (direction of travel), y across toward the object. */
+  trackDistance: number;
+  observerSpeed: number;
+  objectSpeed: number;
+  sightLines: { t: number; observer: { x: number; y: number }; object: { x: number; y: number } }[];
+  fixedPoint: { x: number; y: number; fromRoad: number } | null;
+  bounds: { xMin: number; xMax: number; yMin: number; yMax: number };
+  description: string;
+}
+
+export function planView(a: CaseAnalysis, direction?: PlanView['direction']): PlanView | null {
+  const s = a.series;
+  const u = a.assumptions.observerSpeed;
+  if (!s || !u || a.timestamps.length < 2) return null;
+  const speeds = s.objectSpeed ?? {};
+  const pick =
+    direction ?? (speeds.opposite ? 'opposite' : speeds.sameSlower ? 'same-slower' : speeds.sameFaster ? 'same-faster' : null);
+  if (!pick) return null;
+  const est = pick === 'opposite' ? speeds.opposite : pick === 'same-slower' ? speeds.sameSlower : speeds.sameFaster;
+  if (!est) return null;
+  const uM = (u.lo + u.hi) / 2;
+  const D = s.closestApproach.median;
+  const V = s.relativeSpeed.median;
+  const t0 = s.tClosest.median;
+  // along the road the object moves at -V relative to the observer when it flies the other way or
+  // the same way but slower, at +V when faster; its ground speed is then w = u + rel
+  const rel = pick === 'same-faster' ? V : -V;
+  const w = uM + rel;
+  const sightLines = a.timestamps.map(({ t }) => {
+    const ox = uM * t;
+    return { t, observer: { x: ox, y: 0 }, object: { x: ox + rel * (t - t0), y: D } };
+  });
+  // s = u / (u - w) = -u / rel of the way from observer to object
+  const sFix = rel === 0 ? null : -uM / rel;
+  const first = sightLines[0]!;
+  const fixedPoint =
+    sFix === null || sFix <= 0
+      ? null
+      : { x: first.observer.x + sFix * (first.object.x - first.observer.x), y: sFix * D, fromRoad: sFix * D };
+  const xs = sightLines.flatMap((l) => [l.observer.x, l.object.x]).concat(fixedPoint ? [fixedPoint.x] : []);
+  const ys = [0, D].concat(fixedPoint ? [fixedPoint.y] : []);
+  const pad = Math.max(Math.max(...xs) - Math.min(...xs), Math.max(...ys)) * 0.08 || 10;
+  const where =
+    fixedPoint === null ? 'no point on the ground stays still' : sFix! < 1 ? 'between the road and the track' : 'beyond the track';
+  return {
+    direction: pick,
+    trackDistance: D,
+    observerSpeed: uM,
+    objectSpeed: w,
+    sightLines,
+    fixedPoint,
+    bounds: { xMin: Math.min(...xs) - pad, xMax: Math.max(...xs) + pad, yMin: Math.min(...ys) - pad, yMax: Math.max(...ys) + pad },
+    description: `Plan view to scale: the observer's road, the object's track ${D.toFixed(0)} m away, ${sightLines.length} sight lines; reading the object as flying ${pick.replace('-', ' and ')}, the motionless point lies ${where}${fixedPoint ? `, ${fixedPoint.fromRoad.toFixed(0)} m from the road` : ''}.`,
+  };
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { niceTicks, rangePlot } from '../../src/case/plots';
+import { niceTicks, planView, rangePlot } from '../../src/case/plots';
 import type { CaseAnalysis } from '../../src/case/analysis';
 
 const est = (m: number, w = 0.1) => ({ p05: m * (1 - w), median: m, p95: m * (1 + w) });
@@ -42,5 +42,46 @@ describe('range-over-time plot model', () => {
         expect(ticks.length).toBeLessThanOrEqual(12);
       }),
     );
+  });
+});
+
+describe('plan view model', () => {
+  // invented pass: observer at 25 m/s, relative speed 95 m/s, closest approach 1000 m at t0 = 1.6 s
+  const a = {
+    assumptions: { observerSpeed: { lo: 25, hi: 25 } },
+    timestamps: [0.3, 0.9, 1.5, 2.1].map((t) => ({ t, result: { range: { p05: 1, median: 1, p95: 1 } } })),
+    series: {
+      closestApproach: { p05: 990, median: 1000, p95: 1010 },
+      relativeSpeed: { p05: 94, median: 95, p95: 96 },
+      tClosest: { p05: 1.5, median: 1.6, p95: 1.7 },
+      objectSpeed: { opposite: { p05: 69, median: 70, p95: 71 }, sameFaster: { p05: 119, median: 120, p95: 121 } },
+    },
+  } as unknown as CaseAnalysis;
+
+  it('opposite directions: every sight line passes through one ground point, D u / (u - w) from the road', () => {
+    const p = planView(a)!;
+    expect(p.direction).toBe('opposite');
+    expect(p.objectSpeed).toBeCloseTo(-70, 9);
+    // D u / (u - w) = 1000 x 25 / 95 = 263.2 m (DESIGN.md, parallel tracks)
+    expect(p.fixedPoint!.fromRoad).toBeCloseTo((1000 * 25) / 95, 6);
+    for (const l of p.sightLines) {
+      // the point on this sight line at the fixed point's distance from the road is the fixed point
+      const k = p.fixedPoint!.y / l.object.y;
+      const x = l.observer.x + k * (l.object.x - l.observer.x);
+      expect(x).toBeCloseTo(p.fixedPoint!.x, 6);
+    }
+    expect(p.description).toContain('between the road and the track');
+  });
+
+  it('a faster object in the same direction leaves no motionless point in view', () => {
+    const p = planView(a, 'same-faster')!;
+    expect(p.objectSpeed).toBeCloseTo(120, 9);
+    expect(p.fixedPoint).toBeNull();
+    expect(p.description).toContain('no point on the ground stays still');
+  });
+
+  it('needs the fit and the observer speed', () => {
+    expect(planView({ ...a, series: null } as unknown as CaseAnalysis)).toBeNull();
+    expect(planView({ ...a, assumptions: { observerSpeed: null } } as unknown as CaseAnalysis)).toBeNull();
   });
 });

@@ -177,6 +177,20 @@ describe('the popup view of a measured case', () => {
     await expect.poll(() => view.getByTestId('plot-point').count()).toBe(drift.frames.length);
     expect(await view.getByTestId('fit-curve').getAttribute('d')).toMatch(/^M[\d.]+,[\d.]+( L[\d.]+,[\d.]+){10,}$/);
     expect(await view.getByTestId('range-plot').getAttribute('aria-label')).toContain(`${drift.frames.length} timestamps`);
+
+    // with the observer's speed, the plan view: a sight line per timestamp, all through the
+    // motionless point (parallel tracks; the intercept theorem)
+    await view.getByTestId('field-observerSpeedMs').fill('79.2 km/h ± 3.6');
+    await view.getByTestId('field-observerSpeedMs').press('Enter');
+    await expect.poll(() => view.getByTestId('sight-line').count()).toBe(drift.frames.length);
+    const fp = view.getByTestId('fixed-point');
+    const [fx, fy] = [Number(await fp.getAttribute('data-x')), Number(await fp.getAttribute('data-y'))];
+    for (const l of await view.getByTestId('sight-line').all()) {
+      const [x1, y1, x2, y2] = await Promise.all(['data-x1', 'data-y1', 'data-x2', 'data-y2'].map(async (a) => Number(await l.getAttribute(a))));
+      const xAtF = x1 + ((fy - y1) / (y2 - y1)) * (x2 - x1);
+      expect(Math.abs(xAtF - fx)).toBeLessThan(1e-6 * Math.max(1, Math.abs(fx)));
+    }
+    expect(await view.getByTestId('plan-view').getAttribute('aria-label')).toContain('between the road and the track');
     await view.close();
     await page.close();
   });

@@ -1,0 +1,77 @@
+import { useMemo, useState } from 'preact/hooks';
+import type { CaseAnalysis } from '../../src/case/analysis';
+import { planView, type PlanView } from '../../src/case/plots';
+import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+
+const W = 440;
+const H = 240;
+const LABELS: Record<PlanView['direction'], string> = {
+  opposite: 'flying the other way',
+  'same-slower': 'same way, slower',
+  'same-faster': 'same way, faster',
+};
+
+/**
+ * The ground from above, to scale (one factor for both axes): the observer's road, the object's
+ * track, a sight line per timestamp, and the motionless point they all pass through.
+ */
+export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
+  const readings = (['opposite', 'same-slower', 'same-faster'] as const).filter((d) =>
+    d === 'opposite' ? r.series?.objectSpeed?.opposite : d === 'same-slower' ? r.series?.objectSpeed?.sameSlower : r.series?.objectSpeed?.sameFaster,
+  );
+  const [direction, setDirection] = useState<PlanView['direction'] | undefined>(undefined);
+  const p = useMemo(() => planView(r, direction), [r, direction]);
+  if (!p) return null;
+  const b = p.bounds;
+  const k = Math.min(W / (b.xMax - b.xMin), H / (b.yMax - b.yMin));
+  const x = (v: number) => (v - b.xMin) * k + (W - (b.xMax - b.xMin) * k) / 2;
+  const y = (v: number) => H - ((v - b.yMin) * k + (H - (b.yMax - b.yMin) * k) / 2);
+  const bar = niceLength((b.xMax - b.xMin) / 4);
+  return (
+    <figure class="plot">
+      {readings.length > 1 && (
+        <label class="muted">
+          Direction of the object:{' '}
+          <select value={p.direction} onChange={(e) => setDirection((e.target as HTMLSelectElement).value as PlanView['direction'])} data-testid="plan-direction">
+            {readings.map((d) => (
+              <option value={d}>{LABELS[d]}</option>
+            ))}
+          </select>
+        </label>
+      )}
+      <svg xmlns="http://www.w3.org/2000/svg" viewBox={`0 0 ${W} ${H}`} role="img" aria-label={p.description} data-testid="plan-view">
+        <line x1="0" x2={W} y1={y(0)} y2={y(0)} stroke="currentColor" stroke-width="3" stroke-opacity="0.5" />
+        <text x="4" y={y(0) - 5} font-size="10" fill="currentColor">observer’s road</text>
+        <line x1="0" x2={W} y1={y(p.trackDistance)} y2={y(p.trackDistance)} stroke="#e8590c" stroke-dasharray="6 4" />
+        <text x="4" y={y(p.trackDistance) - 5} font-size="10" fill="currentColor">
+          object’s track, {formatQuantity(p.trackDistance, 'distance', system)} away
+        </text>
+        {p.sightLines.map((l) => (
+          <g data-testid="sight-line" data-x1={l.observer.x} data-y1={l.observer.y} data-x2={l.object.x} data-y2={l.object.y}>
+            <line x1={x(l.observer.x)} y1={y(l.observer.y)} x2={x(l.object.x)} y2={y(l.object.y)} stroke="#0b63c7" stroke-opacity="0.7" />
+            <circle cx={x(l.observer.x)} cy={y(l.observer.y)} r="3" fill="#0b63c7" />
+            <circle cx={x(l.object.x)} cy={y(l.object.y)} r="3" fill="#e8590c" />
+          </g>
+        ))}
+        {p.fixedPoint && (
+          <g data-testid="fixed-point" data-x={p.fixedPoint.x} data-y={p.fixedPoint.y}>
+            <circle cx={x(p.fixedPoint.x)} cy={y(p.fixedPoint.y)} r="5" fill="none" stroke="#2b8a3e" stroke-width="2" />
+            <text x={x(p.fixedPoint.x) + 8} y={y(p.fixedPoint.y) + 4} font-size="10" fill="currentColor">
+              motionless point, {formatQuantity(p.fixedPoint.fromRoad, 'distance', system)} from the road
+            </text>
+          </g>
+        )}
+        <line x1={W - 12 - bar * k} x2={W - 12} y1={H - 8} y2={H - 8} stroke="currentColor" stroke-width="2" />
+        <text x={W - 12} y={H - 12} font-size="10" text-anchor="end" fill="currentColor">
+          {formatQuantity(bar, 'distance', system)}
+        </text>
+      </svg>
+      <figcaption class="muted">{p.description} Drawn from the medians; each figure’s interval is listed above.</figcaption>
+    </figure>
+  );
+}
+
+function niceLength(v: number): number {
+  const mag = 10 ** Math.floor(Math.log10(v));
+  return [1, 2, 5, 10].map((m) => m * mag).reverse().find((s) => s <= v) ?? mag;
+}

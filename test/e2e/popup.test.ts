@@ -186,7 +186,7 @@ describe('the popup view of a measured case', () => {
     const fp = view.getByTestId('fixed-point');
     const [fx, fy] = [Number(await fp.getAttribute('data-x')), Number(await fp.getAttribute('data-y'))];
     for (const l of await view.getByTestId('sight-line').all()) {
-      const [x1, y1, x2, y2] = await Promise.all(['data-x1', 'data-y1', 'data-x2', 'data-y2'].map(async (a) => Number(await l.getAttribute(a))));
+      const [x1, y1, x2, y2] = (await Promise.all(['data-x1', 'data-y1', 'data-x2', 'data-y2'].map(async (a) => Number(await l.getAttribute(a))))) as [number, number, number, number];
       const xAtF = x1 + ((fy - y1) / (y2 - y1)) * (x2 - x1);
       expect(Math.abs(xAtF - fx)).toBeLessThan(1e-6 * Math.max(1, Math.abs(fx)));
     }

@@ -2,6 +2,7 @@ import { useMemo, useState } from 'preact/hooks';
 import type { CaseAnalysis } from '../../src/case/analysis';
 import { planView, type PlanView } from '../../src/case/plots';
 import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+import { savePicture } from './save-picture';
 
 const W = 440;
 const H = 240;
@@ -39,7 +40,7 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
           </select>
         </label>
       )}
-      <svg xmlns="http://www.w3.org/2000/svg" viewBox={`0 0 ${W} ${H}`} role="img" aria-label={p.description} data-testid="plan-view">
+      <svg id="plan-view" xmlns="http://www.w3.org/2000/svg" viewBox={`0 0 ${W} ${H}`} role="img" aria-label={p.description} data-testid="plan-view">
         <line x1="0" x2={W} y1={y(0)} y2={y(0)} stroke="currentColor" stroke-width="3" stroke-opacity="0.5" />
         <text x="4" y={y(0) - 5} font-size="10" fill="currentColor">observer’s road</text>
         <line x1="0" x2={W} y1={y(p.trackDistance)} y2={y(p.trackDistance)} stroke="#e8590c" stroke-dasharray="6 4" />
@@ -66,7 +67,15 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
           {formatQuantity(bar, 'distance', system)}
         </text>
       </svg>
-      <figcaption class="muted">{p.description} Drawn from the medians; each figure’s interval is listed above.</figcaption>
+      <figcaption class="muted">
+        {p.description} Drawn from the medians; each figure’s interval is listed above.{' '}
+        <button type="button" class="secondary" onClick={() => void savePicture(document.getElementById('plan-view') as unknown as SVGSVGElement, 'plan-view', 'svg')} data-testid="plan-svg">
+          Save as SVG
+        </button>{' '}
+        <button type="button" class="secondary" onClick={() => void savePicture(document.getElementById('plan-view') as unknown as SVGSVGElement, 'plan-view', 'png')} data-testid="plan-png">
+          Save as PNG
+        </button>
+      </figcaption>
     </figure>
   );
 }

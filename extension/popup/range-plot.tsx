@@ -1,5 +1,6 @@
 import type { RangePlot } from '../../src/case/plots';
 import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+import { savePicture } from './save-picture';
 
 const W = 440;
 const H = 210;
@@ -10,14 +11,7 @@ export function RangePlotView({ p, system }: { p: RangePlot; system: UnitSystem 
   const x = (t: number) => M.left + ((t - p.t.min) / (p.t.max - p.t.min)) * (W - M.left - M.right);
   const y = (r: number) => H - M.bottom - ((r - p.range.min) / (p.range.max - p.range.min)) * (H - M.top - M.bottom);
   const path = p.curve.map((c, i) => `${i ? 'L' : 'M'}${x(c.t).toFixed(1)},${y(c.r).toFixed(1)}`).join(' ');
-  const save = () => {
-    const svg = document.getElementById('range-plot')!.outerHTML;
-    const a = document.createElement('a');
-    a.href = URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' }));
-    a.download = 'range-over-time.svg';
-    a.click();
-    URL.revokeObjectURL(a.href);
-  };
+  const save = (format: 'svg' | 'png') => void savePicture(document.getElementById('range-plot') as unknown as SVGSVGElement, 'range-over-time', format);
   return (
     <figure class="plot">
       <svg id="range-plot" xmlns="http://www.w3.org/2000/svg" viewBox={`0 0 ${W} ${H}`} role="img" aria-label={p.description} data-testid="range-plot">
@@ -47,7 +41,13 @@ export function RangePlotView({ p, system }: { p: RangePlot; system: UnitSystem 
         ))}
       </svg>
       <figcaption class="muted">
-        {p.description} <button type="button" class="secondary" onClick={save}>Save as SVG</button>
+        {p.description}{' '}
+        <button type="button" class="secondary" onClick={() => save('svg')}>
+          Save as SVG
+        </button>{' '}
+        <button type="button" class="secondary" onClick={() => save('png')} data-testid="range-png">
+          Save as PNG
+        </button>
       </figcaption>
       <table class="sr">
         <caption>Range at each timestamp</caption>

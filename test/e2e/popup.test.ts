@@ -191,6 +191,16 @@ describe('the popup view of a measured case', () => {
       expect(Math.abs(xAtF - fx)).toBeLessThan(1e-6 * Math.max(1, Math.abs(fx)));
     }
     expect(await view.getByTestId('plan-view').getAttribute('aria-label')).toContain('between the road and the track');
+
+    // both pictures save as files: PNG (checked by its signature) and SVG
+    for (const [id, name] of [['plan-png', 'plan-view.png'], ['range-png', 'range-over-time.png']] as const) {
+      const [dl] = await Promise.all([view.waitForEvent('download'), view.getByTestId(id).click()]);
+      expect(dl.suggestedFilename()).toBe(name);
+      const bytes = readFileSync((await dl.path())!);
+      expect([...bytes.subarray(0, 8)]).toEqual([137, 80, 78, 71, 13, 10, 26, 10]); // the PNG signature
+    }
+    const [svgDl] = await Promise.all([view.waitForEvent('download'), view.getByTestId('plan-svg').click()]);
+    expect(readFileSync((await svgDl.path())!, 'utf8')).toMatch(/^<svg[^>]*xmlns="http:\/\/www.w3.org\/2000\/svg"/);
     await view.close();
     await page.close();
   });

@@ -140,6 +140,12 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
           {r.series.objectSpeed?.opposite && <div>Object speed, opposite direction {est(r.series.objectSpeed.opposite, 'speed')}</div>}
           {r.series.objectSpeed?.sameSlower && <div>Object speed, same direction and slower {est(r.series.objectSpeed.sameSlower, 'speed')}</div>}
           {r.series.objectSpeed?.sameFaster && <div>Object speed, same direction and faster {est(r.series.objectSpeed.sameFaster, 'speed')}</div>}
+          {r.window && (
+            <div data-testid="window">
+              Within ±{formatQuantity(r.window.halfAngle, 'angle', system)} of abeam (half the field of view) for {est(r.window.estimate, 'time')}
+              {r.window.clipLength !== null ? `; the clip is ${formatQuantity(r.window.clipLength, 'time', system)} long` : ''}
+            </div>
+          )}
         </div>
       ) : (
         <p class="muted">{r.seriesMissing}</p>

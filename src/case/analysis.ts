@@ -1,5 +1,6 @@
 import { laneCycleById, observerSpeedFromDashes } from '../engine/lanes';
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
+import { observationWindow } from '../engine/speed';
 import { solveSeries, type SeriesResult } from '../engine/series';
 import type { Estimate } from '../engine/stats';
 import { solveFrame, type FrameResult, type RegimeShares } from '../engine/uncertainty';
@@ -45,6 +46,12 @@ export interface CaseAnalysis {
   seriesMissing: string | null;
   verdict: Verdict | null;
   verdictMissing: string | null;
+  /**
+   * How long the pass keeps the object within half the field of view of abeam, 2 D' tan(A) / V,
+   * against the clip's length. Its ends combine the ends of D' and V, so the interval is wider
+   * than the draws' own would be (cautious, never bold).
+   */
+  window: { halfAngle: number; estimate: Estimate; clipLength: number | null } | null;
   /** Marks that could not be solved, with the reason (an end outside the camera frame, say). */
   problems: string[];
 }
@@ -121,7 +128,25 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
       verdictMissing = `No verdict: ${(err as Error).message}`;
     }
   }
-  return { assumptions: a, laneSpeed: lanes.speed, laneSpeedMissing: lanes.missing, frame, timestamps, series, seriesMissing, verdict, verdictMissing, problems };
+  let window: CaseAnalysis['window'] = null;
+  if (series && series.closestApproach.median > 0 && series.relativeSpeed.p05 > 0) {
+    const A = (a.hfov.lo + a.hfov.hi) / 4; // half of the middle field of view
+    try {
+      window = {
+        halfAngle: A,
+        estimate: {
+          // a closest approach that may be zero (a collision course) lets the window shrink to nothing
+          p05: series.closestApproach.p05 > 0 ? observationWindow(series.closestApproach.p05, series.relativeSpeed.p95, A) : 0,
+          median: observationWindow(series.closestApproach.median, series.relativeSpeed.median, A),
+          p95: observationWindow(series.closestApproach.p95, series.relativeSpeed.p05, A),
+        },
+        clipLength: c.video.duration,
+      };
+    } catch {
+      window = null;
+    }
+  }
+  return { assumptions: a, laneSpeed: lanes.speed, laneSpeedMissing: lanes.missing, frame, timestamps, series, seriesMissing, verdict, verdictMissing, window, problems };
 }
 
 /*

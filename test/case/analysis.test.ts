@@ -76,6 +76,10 @@ describe('analyseCase on the fixture clips', () => {
     expect(inside(6.85, r.series!.tClosest)).toBe(true);
     // opposite direction: V - u = 87 - 22 = 65 m/s, the object's true speed
     expect(inside(65, r.series!.objectSpeed!.opposite!)).toBe(true);
+    // observation window within half the field of view of abeam: 2 D' tan(35 deg) / V for the
+    // scene's truth (DESIGN.md), inside the reported interval
+    expect(r.window!.halfAngle).toBeCloseTo((35 * Math.PI) / 180, 9);
+    expect(inside((2 * Dp * Math.tan((35 * Math.PI) / 180)) / 87, r.window!.estimate)).toBe(true);
     expect(r.verdictMissing).toMatch(/landmark/);
   });
 

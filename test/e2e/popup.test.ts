@@ -192,6 +192,9 @@ describe('the popup view of a measured case', () => {
     }
     expect(await view.getByTestId('plan-view').getAttribute('aria-label')).toContain('between the road and the track');
 
+    // the observation window, against the clip's length (3.2 s)
+    expect(await view.getByTestId('window').textContent()).toMatch(/of abeam \(half the field of view\) for .*; the clip is 3\.2\d* s long/);
+
     // both pictures save as files: PNG (checked by its signature) and SVG
     for (const [id, name] of [['plan-png', 'plan-view.png'], ['range-png', 'range-over-time.png']] as const) {
       const [dl] = await Promise.all([view.waitForEvent('download'), view.getByTestId(id).click()]);

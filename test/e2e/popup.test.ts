@@ -33,6 +33,25 @@ async function setUnits(system: 'metric' | 'imperial' | 'aviation'): Promise<voi
   await options.close();
 }
 
+/** Opens a page with the overlay up over its video, paused at t when given. */
+async function overlaid(path: string, t?: number): Promise<{ page: Page; box: { x: number; y: number } }> {
+  const page = await app.context.newPage();
+  await page.setViewportSize({ width: 1000, height: 700 });
+  await page.goto(server.url(path));
+  await videoReady(page);
+  if (t !== undefined) await seek(page, t);
+  await injectOverlay(app, page.url());
+  await overlayReady(page);
+  return { page, box: (await page.locator('video').boundingBox())! };
+}
+
+/** The popup's view of the tab showing `page`, opened as a full tab. */
+async function popupFor(page: Page): Promise<Page> {
+  const view = await app.context.newPage();
+  await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+  return view;
+}
+
 async function drag(page: Page, box: { x: number; y: number }, p: { x1: number; y1: number; x2: number; y2: number }) {
   await page.mouse.move(box.x + p.x1, box.y + p.y1);
   await page.mouse.down();
@@ -49,15 +68,8 @@ const numbers = (text: string) => {
 
 describe('the popup view of a measured case', () => {
   it('shows the figures from the marks, follows typed assumptions, and keeps the last valid one on a bad entry', async () => {
-    const page = await app.context.newPage();
-    await page.setViewportSize({ width: 1000, height: 700 });
-    await page.goto(server.url('/plain.html?popup'));
-    await videoReady(page);
     const f = truth.frames[1];
-    await seek(page, f.t);
-    await injectOverlay(app, page.url());
-    await overlayReady(page);
-    const box = (await page.locator('video').boundingBox())!;
+    const { page, box } = await overlaid('/plain.html?popup', f.t);
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('1');
     await drag(page, box, f.object);
@@ -65,8 +77,7 @@ describe('the popup view of a measured case', () => {
     await drag(page, box, f.landmarks.find((l: { id: string }) => l.id === 'mast'));
     await overlayReady(page, 2);
 
-    const view = await app.context.newPage();
-    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('timestamp').count()).toBe(1);
     expect(await view.getByTestId('case').textContent()).toContain('default assumptions');
 
@@ -132,18 +143,12 @@ describe('the popup view of a measured case', () => {
     await options.getByTestId('speed').press('Enter');
     await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
 
-    const page = await app.context.newPage();
-    await page.goto(server.url('/plain.html?settings'));
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await overlayReady(page);
-    const box = (await page.locator('video').boundingBox())!;
+    const { page, box } = await overlaid('/plain.html?settings');
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('1');
     await drag(page, box, truth.frames[0].object);
 
-    const view = await app.context.newPage();
-    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('timestamp').count()).toBe(1);
     // 50 kn is 92.6 km/h: shown back in the field in km/h, the popup's unit for speeds typed
     expect(await view.getByTestId('field-observerSpeedMs').inputValue()).toBe('92.6 km/h');
@@ -158,13 +163,7 @@ describe('the popup view of a measured case', () => {
 
   it('draws the range over time once three timestamps are marked, with a point per timestamp and the fitted pass', async () => {
     const drift = JSON.parse(readFileSync('test/fixtures/clips/drift-fixed.truth.json', 'utf8'));
-    const page = await app.context.newPage();
-    await page.setViewportSize({ width: 1000, height: 700 });
-    await page.goto(server.url('/drift.html?plot'));
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await overlayReady(page);
-    const box = (await page.locator('video').boundingBox())!;
+    const { page, box } = await overlaid('/drift.html?plot');
     for (const [i, f] of drift.frames.entries()) {
       await seek(page, f.t);
       await page.locator('clip-caliper-overlay .surface').focus();
@@ -172,8 +171,7 @@ describe('the popup view of a measured case', () => {
       await drag(page, box, f.object);
       await overlayReady(page, i + 1);
     }
-    const view = await app.context.newPage();
-    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('plot-point').count()).toBe(drift.frames.length);
     expect(await view.getByTestId('fit-curve').getAttribute('d')).toMatch(/^M[\d.]+,[\d.]+( L[\d.]+,[\d.]+){10,}$/);
     expect(await view.getByTestId('range-plot').getAttribute('aria-label')).toContain(`${drift.frames.length} timestamps`);
@@ -210,13 +208,7 @@ describe('the popup view of a measured case', () => {
 
   it('measures the observer speed from lane-dash passes marked in the overlay, once the cycle is chosen', async () => {
     await setUnits('aviation');
-    const page = await app.context.newPage();
-    await page.setViewportSize({ width: 1000, height: 700 });
-    await page.goto(server.url('/plain.html?lanes'));
-    await videoReady(page);
-    await injectOverlay(app, page.url());
-    await overlayReady(page);
-    const box = (await page.locator('video').boundingBox())!;
+    const { page, box } = await overlaid('/plain.html?lanes');
     // invented passes: a dash's leading edge meets the reference at these times
     const times = [0.2, 0.7, 1.2, 1.7];
     for (const [i, t] of times.entries()) {
@@ -226,8 +218,7 @@ describe('the popup view of a measured case', () => {
       await page.mouse.click(box.x + 300, box.y + 340);
       await overlayReady(page, i + 1);
     }
-    const view = await app.context.newPage();
-    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('case').textContent()).toContain('choose the road’s lane-line cycle');
     await view.getByTestId('field-lanes').selectOption('us-broken');
     // 3 cycles of 40 ft (12.192 m, MUTCD 2009 section 3A.06) in 1.5 s: 24.384 m/s, shown in the
@@ -240,22 +231,14 @@ describe('the popup view of a measured case', () => {
 
   it('a colleague recomputes the exported case file with `npm run solve` to the same text, byte for byte', async () => {
     await setUnits('metric');
-    const page = await app.context.newPage();
-    await page.setViewportSize({ width: 1000, height: 700 });
-    await page.goto(server.url('/plain.html?recompute'));
-    await videoReady(page);
     const f = truth.frames[2];
-    await seek(page, f.t);
-    await injectOverlay(app, page.url());
-    await overlayReady(page);
-    const box = (await page.locator('video').boundingBox())!;
+    const { page, box } = await overlaid('/plain.html?recompute', f.t);
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('1');
     await drag(page, box, f.object);
     await overlayReady(page, 1);
 
-    const view = await app.context.newPage();
-    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+    const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('timestamp').count()).toBe(1);
     const [download] = await Promise.all([view.waitForEvent('download'), view.getByTestId('export').click()]);
     expect(download.suggestedFilename()).toMatch(/^clip-caliper-Invented-clip-plain-\d{4}-\d{2}-\d{2}-[0-9a-f]{8}\.json$/);

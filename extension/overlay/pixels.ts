@@ -29,11 +29,12 @@ export class FramePixels {
     const v = this.video;
     if (v.videoWidth === 0 || v.mediaKeys) return null;
     const m = this.mapping();
-    const key = `${v.currentTime}|${this.direct}|${m ? JSON.stringify(m) : ''}`;
-    if (this.cached && key === this.cacheKey) return this.cached;
+    // a capture depends on where the picture is on screen; a direct read only on the frame
+    const key = () => `${v.currentTime}|${this.direct ? '' : JSON.stringify(m)}`;
+    if (this.cached && key() === this.cacheKey) return this.cached;
     const img = this.direct ? this.readDirect() : null;
     this.cached = img ?? (m ? await this.readCapture(m) : null);
-    this.cacheKey = `${v.currentTime}|${this.direct}|${m ? JSON.stringify(m) : ''}`;
+    this.cacheKey = key(); // after the read: it may have found the video unreadable
     return this.cached;
   }
 

@@ -1,9 +1,7 @@
 import type { FrameRect } from '../../src/case/frames';
 import type { Point } from '../../src/case/schema';
 import { solveFrame, type FrameResult } from '../../src/engine/uncertainty';
-import type { LiveAssumptions } from './assumptions';
-
-export { cameraFrame, marksAt, type FrameRect } from '../../src/case/frames';
+import type { EngineAssumptions as LiveAssumptions } from '../../src/case/assumptions';
 
 export interface LiveFigures {
   spanPx: number;

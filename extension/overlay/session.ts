@@ -7,13 +7,17 @@ import { caseKey } from '../../src/case/schema';
 import { browser, send } from '../shared/browser';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
-import { DEFAULT_EDGE_SIGMA_PX, liveAssumptionsFor, type LiveAssumptions } from './assumptions';
+import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
+import { cameraFrame, marksAt } from '../../src/case/frames';
 import { forceStyle, h, svg } from './dom';
 import { degrees, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
-import { cameraFrame, liveFigures, marksAt } from './readout';
+import { liveFigures } from './readout';
 import { OVERLAY_CSS } from './styles';
+
+/** Until a snap says better (common practice: about the width of an anti-aliased edge). */
+const DEFAULT_EDGE_SIGMA_PX = 0.7;
 
 interface ToolDef {
   kind: MarkKind;
@@ -53,7 +57,7 @@ interface Draft {
 export class MeasureSession {
   private readonly host: OverlayHost;
   private readonly pixels: FramePixels;
-  private assumptions: LiveAssumptions = liveAssumptionsFor(undefined);
+  private assumptions: EngineAssumptions = engineAssumptions(undefined);
   /** The units chosen in the settings, followed live. */
   private system: UnitSystem = 'metric';
   private caseId = '';
@@ -64,6 +68,8 @@ export class MeasureSession {
   private selected: { markId: string; end: number } | null = null;
   private cursor: Point | null = null;
   private mapping: Mapping | null = null;
+  /** The mapping holds until the video's box moves or its picture changes (see invalidateMapping). */
+  private mappingValid = false;
   private pendingSave: number | undefined;
   /** The mark whose nudges wait for their debounced save. */
   private pendingId: string | null = null;
@@ -133,6 +139,7 @@ export class MeasureSession {
     );
     root.append(this.surface, this.magnifier, this.panel);
     this.host.placed = () => {
+      this.invalidateMapping();
       this.placePanel();
       this.redraw();
     };
@@ -154,8 +161,14 @@ export class MeasureSession {
     this.host.keys = (e) => this.key(e);
     const v = this.video;
     v.addEventListener('seeked', () => this.redraw(), { signal });
-    v.addEventListener('loadedmetadata', () => this.sourceChanged(), { signal });
-    v.addEventListener('emptied', () => this.sourceChanged(), { signal });
+    v.addEventListener('loadedmetadata', () => {
+      this.invalidateMapping();
+      this.sourceChanged();
+    }, { signal });
+    v.addEventListener('emptied', () => {
+      this.invalidateMapping();
+      this.sourceChanged();
+    }, { signal });
     // the popup edits assumptions (and another tab may add marks): follow the stored case
     const onStored = (changes: Record<string, { newValue?: unknown }>, area: string) => {
       if (area !== 'local' || !this.caseId) return;
@@ -222,7 +235,7 @@ export class MeasureSession {
       if (local) c = { ...c, marks: c.marks.some((m) => m.id === local.id) ? c.marks.map((m) => (m.id === local.id ? local : m)) : [...c.marks, local] };
     }
     this.record = c;
-    this.assumptions = liveAssumptionsFor(c.assumptions);
+    this.assumptions = engineAssumptions(c.assumptions);
     this.redraw();
   }
 
@@ -260,9 +273,20 @@ export class MeasureSession {
   /* ---------------------------------------------------------------------------------------- */
   /* Geometry                                                                                  */
 
+  /**
+   * The CSS-to-intrinsic mapping, computed once per layout rather than on every pointer move: the
+   * host calls `placed` whenever the video's box moves (scroll, resize, transforms, fullscreen),
+   * and a new source brings new metadata; both drop it.
+   */
+  private invalidateMapping(): void {
+    this.mappingValid = false;
+  }
+
   private currentMapping(): Mapping | null {
+    if (this.mappingValid) return this.mapping;
     const v = this.video;
     if (v.videoWidth === 0) return null;
+    this.mappingValid = true;
     const cs = getComputedStyle(v);
     const px = (p: string) => parseFloat(cs.getPropertyValue(p)) || 0;
     try {

@@ -27,18 +27,16 @@ interface FieldDef {
   label: string;
   kind: Quantity;
   unit: string;
-  /** SI value of one display unit (the field shows degrees, metres, km/h). */
-  scale: number;
   optional?: boolean;
   hint: string;
 }
 
 const FIELDS: FieldDef[] = [
-  { key: 'hfovDeg', label: 'Camera field of view (horizontal)', kind: 'angle', unit: 'deg', scale: DEG, hint: 'e.g. 39 to 41 deg' },
-  { key: 'objectSizeM', label: 'Object size (the dimension marked)', kind: 'length', unit: 'm', scale: 1, hint: 'e.g. 24-36 m (code letter C wingspan)' },
-  { key: 'aspectDeg', label: 'Aspect angle (90 = broadside)', kind: 'angle', unit: 'deg', scale: DEG, hint: 'e.g. 75 to 90' },
-  { key: 'landmarkSizeM', label: 'Landmark size', kind: 'length', unit: 'm', scale: 1, hint: 'e.g. 10-20 m' },
-  { key: 'observerSpeedMs', label: 'Observer speed', kind: 'speed', unit: 'km/h', scale: 1 / 3.6, optional: true, hint: 'e.g. 90 km/h ± 10, or leave empty' },
+  { key: 'hfovDeg', label: 'Camera field of view (horizontal)', kind: 'angle', unit: 'deg', hint: 'e.g. 39 to 41 deg' },
+  { key: 'objectSizeM', label: 'Object size (the dimension marked)', kind: 'length', unit: 'm', hint: 'e.g. 24-36 m (code letter C wingspan)' },
+  { key: 'aspectDeg', label: 'Aspect angle (90 = broadside)', kind: 'angle', unit: 'deg', hint: 'e.g. 75 to 90' },
+  { key: 'landmarkSizeM', label: 'Landmark size', kind: 'length', unit: 'm', hint: 'e.g. 10-20 m' },
+  { key: 'observerSpeedMs', label: 'Observer speed', kind: 'speed', unit: 'km/h', optional: true, hint: 'e.g. 90 km/h ± 10, or leave empty' },
 ];
 
 function shown(a: CaseAssumptions, f: FieldDef): string {

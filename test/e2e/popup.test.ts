@@ -180,13 +180,19 @@ describe('the popup view of a measured case', () => {
     // motionless point (parallel tracks; the intercept theorem)
     await view.getByTestId('field-observerSpeedMs').fill('79.2 km/h ± 3.6');
     await view.getByTestId('field-observerSpeedMs').press('Enter');
+    // the case may have started with the settings' speed: wait until the typed one is in force
+    await expect.poll(() => view.getByTestId('field-observerSpeedMs').inputValue()).toBe('75.6 to 82.8 km/h');
     await expect.poll(() => view.getByTestId('sight-line').count()).toBe(drift.frames.length);
-    const fp = view.getByTestId('fixed-point');
-    const [fx, fy] = [Number(await fp.getAttribute('data-x')), Number(await fp.getAttribute('data-y'))];
-    for (const l of await view.getByTestId('sight-line').all()) {
-      const [x1, y1, x2, y2] = (await Promise.all(['data-x1', 'data-y1', 'data-x2', 'data-y2'].map(async (a) => Number(await l.getAttribute(a))))) as [number, number, number, number];
-      const xAtF = x1 + ((fy - y1) / (y2 - y1)) * (x2 - x1);
-      expect(Math.abs(xAtF - fx)).toBeLessThan(1e-6 * Math.max(1, Math.abs(fx)));
+    // read the drawing in one go, so that a re-render between reads cannot mix two versions
+    const drawn = (await view.evaluate(`(() => {
+      const fp = document.querySelector('[data-testid=fixed-point]');
+      const lines = [...document.querySelectorAll('[data-testid=sight-line]')].map((l) => ['data-x1', 'data-y1', 'data-x2', 'data-y2'].map((a) => Number(l.getAttribute(a))));
+      return { fx: Number(fp.getAttribute('data-x')), fy: Number(fp.getAttribute('data-y')), lines };
+    })()`)) as { fx: number; fy: number; lines: [number, number, number, number][] };
+    expect(drawn.lines).toHaveLength(drift.frames.length);
+    for (const [x1, y1, x2, y2] of drawn.lines) {
+      const xAtF = x1 + ((drawn.fy - y1) / (y2 - y1)) * (x2 - x1);
+      expect(Math.abs(xAtF - drawn.fx), JSON.stringify(drawn)).toBeLessThan(1e-6 * Math.max(1, Math.abs(drawn.fx)));
     }
     expect(await view.getByTestId('plan-view').getAttribute('aria-label')).toContain('between the road and the track');
 

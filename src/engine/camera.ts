@@ -227,14 +227,26 @@ export function rayAngleUnchecked(
 /**
  * A span's constants for moving its ends along its own line, the way an edge uncertainty acts:
  * [length, C0 = X1 Dy - Y1 Dx, Q0 = X1 X2 + Y1 Y2] with X, Y measured from the frame centre and D
- * the span vector. See spanHalfAngleTanUnchecked.
+ * the span vector, written to `out` (a caller solving many spans passes one array for all). See
+ * spanHalfAngleTanUnchecked.
  */
-export function spanLineConstants(x1: number, y1: number, x2: number, y2: number, widthPx: number, heightPx: number): Float64Array {
+export function spanLineConstants(
+  x1: number,
+  y1: number,
+  x2: number,
+  y2: number,
+  widthPx: number,
+  heightPx: number,
+  out: Float64Array = new Float64Array(3),
+): Float64Array {
   const X1 = x1 - widthPx / 2;
   const Y1 = y1 - heightPx / 2;
   const X2 = x2 - widthPx / 2;
   const Y2 = y2 - heightPx / 2;
-  return Float64Array.of(Math.hypot(X2 - X1, Y2 - Y1), X1 * (Y2 - Y1) - Y1 * (X2 - X1), X1 * X2 + Y1 * Y2);
+  out[0] = Math.hypot(X2 - X1, Y2 - Y1);
+  out[1] = X1 * (Y2 - Y1) - Y1 * (X2 - X1);
+  out[2] = X1 * X2 + Y1 * Y2;
+  return out;
 }
 
 /**

@@ -64,6 +64,20 @@ const CHI2_TOLERANCE = 1e-10;
  * range errors) the answers moved by at most 0.001 standard errors, and a third of fits save a pass.
  */
 const FINAL_STEP = 1e-2;
+/**
+ * The same for a bootstrap draw: a step promising less than 1 (about one standard error) is the last.
+ * Over the same 3000 passes the answers moved by at most 0.015 standard errors (tested), a third of
+ * the Monte Carlo error of a 5 % quantile from 2000 draws; most draws then need one pass, not two.
+ */
+const FINAL_STEP_BOOTSTRAP = 1;
+
+/** How far {@link fitRangeOverTimeKernel} refines: to convergence, or as far as a bootstrap draw needs. */
+export const FitPrecision = {
+  FULL: 0,
+  BOOTSTRAP: 1,
+} as const;
+export type FitPrecisionCode = (typeof FitPrecision)[keyof typeof FitPrecision];
+
 /** Below this, a correlation-matrix determinant means the parameters cannot be told apart. */
 const SINGULAR_DET = 1e-14;
 /** Curvature below -2 standard errors is read as a real downward curve, not noise (common practice). */
@@ -285,10 +299,13 @@ function evaluate(w: Float64Array, n: number): boolean {
     const m2 = (p2 * tau + p1) * tau + p0;
     if (m2 < minM2) minM2 = m2;
     const m = Math.sqrt(m2);
+    // one division a sample: 1/m serves both u = w/4m^2 and we = w e/2m
+    const im = 1 / m;
     const wi = w[k + 2]!;
     const e = m - w[k + 1]!;
-    const u = (0.25 * wi) / m2;
-    const we = (0.5 * wi * e) / m;
+    const hw = 0.5 * wi * im;
+    const u = 0.5 * hw * im;
+    const we = hw * e;
     const tau2 = tau * tau;
     const ut2 = u * tau2;
     chi2 += wi * e * e;
@@ -318,11 +335,13 @@ function evaluate(w: Float64Array, n: number): boolean {
 /**
  * Damped Gauss-Newton on (p2, p1, p0): full steps, halved until chi^2 does not rise. A step promising
  * less than FINAL_STEP is taken without evaluating after it: the quadratic model is exact to far below
- * the noise there, and skipping that pass saves up to half of a typical fit. Leaves the result in `best`
+ * the noise there, and skipping that pass saves up to half of a typical fit (FINAL_STEP_BOOTSTRAP
+ * for a bootstrap draw). Leaves the result in `best`
  * and in `ev` the evaluation at (or a hair before) it. Returns false if the start is invalid or the
  * normal matrix singular.
  */
-function refine(w: Float64Array, n: number): boolean {
+function refine(w: Float64Array, n: number, precision: FitPrecisionCode): boolean {
+  const finalStep = precision === FitPrecision.BOOTSTRAP ? FINAL_STEP_BOOTSTRAP : FINAL_STEP;
   let p2 = par[0]!;
   let p1 = par[1]!;
   let p0 = par[2]!;
@@ -342,7 +361,7 @@ function refine(w: Float64Array, n: number): boolean {
       converged = true;
       break;
     }
-    if (promised < FINAL_STEP) {
+    if (promised < finalStep) {
       p2 += d2;
       p1 += d1;
       p0 += d0;
@@ -485,6 +504,7 @@ export function fitRangeOverTimeKernel(
   n: number,
   out: Float64Array,
   work?: Float64Array,
+  precision: FitPrecisionCode = FitPrecision.FULL,
 ): FitStatusCode {
   if (out.length < FIT_OUT_LENGTH) {
     throw new InputError('output length', out.length, `at least ${FIT_OUT_LENGTH} slots (FIT_OUT_LENGTH)`);
@@ -511,7 +531,7 @@ export function fitRangeOverTimeKernel(
   }
   if (!(minM2 > floor)) p0 += floor - minM2;
   setPar(p2, p1, p0);
-  if (!refine(w, n)) return FitStatus.SINGULAR;
+  if (!refine(w, n, precision)) return FitStatus.SINGULAR;
   p2 = best[0]!;
   p1 = best[1]!;
   p0 = best[2]!;
@@ -738,7 +758,7 @@ export function bootstrapRangeFit(samples: readonly RangeSample[], draws: number
       rStar[i] = ri;
     }
     if (!valid) continue;
-    if (fitRangeOverTimeKernel(t, rStar, s, n, out, work) !== FitStatus.OK) continue;
+    if (fitRangeOverTimeKernel(t, rStar, s, n, out, work, FitPrecision.BOOTSTRAP) !== FitStatus.OK) continue;
     dDraws[ok] = out[FIT_OUT.closestApproach]!;
     vDraws[ok] = out[FIT_OUT.relativeSpeed]!;
     tDraws[ok] = out[FIT_OUT.tClosest]!;

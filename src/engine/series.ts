@@ -1,6 +1,6 @@
 import { MAX_FRAME_PX, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
 import { InputError } from './errors';
-import { FIT_OUT, FIT_OUT_LENGTH, FitStatus, fitRangeOverTimeKernel } from './fit';
+import { FIT_OUT, FIT_OUT_LENGTH, FitPrecision, FitStatus, fitRangeOverTimeKernel } from './fit';
 import { Rng } from './rng';
 import { finiteShare, summarize, type Estimate } from './stats';
 import {
@@ -9,8 +9,7 @@ import {
   checkOptions,
   checkSpan,
   Columns,
-  fillHalfTans,
-  fillRanges,
+  fillSpanRangeRows,
   fillSinAspect,
   fillTanHalf,
   fillUniform,
@@ -78,56 +77,34 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
   if (scene.observerSpeed) band('observer speed', scene.observerSpeed.lo, scene.observerSpeed.hi, 0, MAX_SPEED_MS, ' m/s');
 
   const n = marks.length;
-  const t = Float64Array.from(marks, (m) => m.t);
+  const t = new Float64Array(n);
+  // relative range error from the two ends' noise, sqrt(2) sigma / span (small-angle), for the fit's weights
+  const relSigma = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    const m = marks[k]!;
+    t[k] = m.t;
+    relSigma[k] = Math.max((Math.SQRT2 * m.span.edgeSigmaPx) / Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1), 1e-6);
+  }
   const r = new Float64Array(n);
   const sig = new Float64Array(n);
   const out = new Float64Array(FIT_OUT_LENGTH);
-  // relative range error from the two ends' noise, sqrt(2) sigma / span (small-angle), for the fit's weights
-  const relSigma = Float64Array.from(marks, (m) =>
-    Math.max((Math.SQRT2 * m.span.edgeSigmaPx) / Math.hypot(m.span.x2 - m.span.x1, m.span.y2 - m.span.y1), 1e-6),
-  );
+  const work = new Float64Array(3 * n);
   const col = (k: number) => seriesColumns.get(k, draws);
-  const [dp, vr, t0, wOpp, wSlow, wFast, tanHalf, size, sinA, u, theta] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10].map(col) as Tuple<11>;
-  const perMark = marks.map((_, k) => col(11 + k));
+  const [dp, vr, t0, wOpp, wSlow, wFast, tanHalf, scale, sinA, u, normals] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10].map(col) as Tuple<11>;
+  // draws x marks, row-major: each draw's fit reads its ranges in one run
+  const rows = seriesColumns.get(11, draws * n);
   const rng = new Rng(seed);
   const us = scene.observerSpeed;
 
   // shared by every mark of a draw: one camera, one object
   fillTanHalf(rng, scene.hfov, tanHalf, draws);
-  fillUniform(rng, scene.object.size, size, draws);
+  fillUniform(rng, scene.object.size, scale, draws);
   fillSinAspect(rng, scene.object.aspect, sinA, draws);
-  for (let k = 0; k < n; k++) {
-    fillHalfTans(rng, marks[k]!.span, W, H, tanHalf, theta, draws);
-    fillRanges(size, sinA, theta, perMark[k]!, draws);
-  }
+  multiplyInPlace(scale, sinA, draws);
+  for (let k = 0; k < n; k++) fillSpanRangeRows(rng, marks[k]!.span, W, H, tanHalf, scale, normals, rows, k, n, draws);
   if (us) fillUniform(rng, us, u, draws);
 
-  let failed = 0;
-  for (let i = 0; i < draws; i++) {
-    let bad = false;
-    for (let k = 0; k < n; k++) {
-      const R = perMark[k]![i]!;
-      r[k] = R;
-      sig[k] = R * relSigma[k]!;
-      if (!(R > 0)) bad = true;
-    }
-    const status = bad ? -1 : fitRangeOverTimeKernel(t, r, sig, n, out);
-    if (status !== FitStatus.OK) {
-      failed++;
-      dp[i] = vr[i] = t0[i] = wOpp[i] = wSlow[i] = wFast[i] = Number.NaN;
-      continue;
-    }
-    const V = out[FIT_OUT.relativeSpeed]!;
-    const ui = u[i]!;
-    dp[i] = out[FIT_OUT.closestApproach]!;
-    vr[i] = V;
-    t0[i] = out[FIT_OUT.tClosest]!;
-    // the three readings of the direction of travel (fit.ts objectSpeedFromRelative, per draw)
-    wOpp[i] = V >= ui ? V - ui : Number.NaN;
-    wSlow[i] = V <= ui ? ui - V : Number.NaN;
-    wFast[i] = ui + V;
-  }
-
+  const failed = fitDraws(t, rows, relSigma, n, draws, u, { r, sig, out, work, dp, vr, t0, wOpp, wSlow, wFast });
   if (failed === draws) {
     throw new InputError('timestamps', `${n} marks`, 'ranges that follow one straight pass (no draw could be fitted)');
   }
@@ -153,3 +130,55 @@ export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): Ser
   return result;
 }
 
+interface DrawColumns {
+  r: Float64Array;
+  sig: Float64Array;
+  out: Float64Array;
+  work: Float64Array;
+  dp: Float64Array;
+  vr: Float64Array;
+  t0: Float64Array;
+  wOpp: Float64Array;
+  wSlow: Float64Array;
+  wFast: Float64Array;
+}
+
+/*
+ * The per-draw refits, in a function of their own that ends in a bare return: V8 compiles a long loop
+ * on the fly during the first solve, before the code after it has ever run, and a compiled loop
+ * followed by code without type feedback bailed out on every later solve (see stats.ts).
+ * Returns the number of draws whose fit failed; their columns hold NaN.
+ */
+function fitDraws(t: Float64Array, rows: Float64Array, relSigma: Float64Array, n: number, draws: number, u: Float64Array, c: DrawColumns): number {
+  const { r, sig, out, work, dp, vr, t0, wOpp, wSlow, wFast } = c;
+  let failed = 0;
+  for (let i = 0, at = 0; i < draws; i++) {
+    let bad = false;
+    for (let k = 0; k < n; k++, at++) {
+      const R = rows[at]!;
+      r[k] = R;
+      sig[k] = R * relSigma[k]!;
+      if (!(R > 0)) bad = true;
+    }
+    const status = bad ? -1 : fitRangeOverTimeKernel(t, r, sig, n, out, work, FitPrecision.BOOTSTRAP);
+    if (status !== FitStatus.OK) {
+      failed++;
+      dp[i] = vr[i] = t0[i] = wOpp[i] = wSlow[i] = wFast[i] = Number.NaN;
+      continue;
+    }
+    const V = out[FIT_OUT.relativeSpeed]!;
+    const ui = u[i]!;
+    dp[i] = out[FIT_OUT.closestApproach]!;
+    vr[i] = V;
+    t0[i] = out[FIT_OUT.tClosest]!;
+    // the three readings of the direction of travel (fit.ts objectSpeedFromRelative, per draw)
+    wOpp[i] = V >= ui ? V - ui : Number.NaN;
+    wSlow[i] = V <= ui ? ui - V : Number.NaN;
+    wFast[i] = ui + V;
+  }
+  return failed;
+}
+
+function multiplyInPlace(a: Float64Array, b: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) a[i] = a[i]! * b[i]!;
+}

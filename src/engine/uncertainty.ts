@@ -133,7 +133,7 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
   fillUniform(rng, obj.size, size, n);
   fillSinAspect(rng, obj.aspect, sinA, n);
   fillRanges(size, sinA, theta, range, n);
-  for (let i = 0; i < n; i++) theta[i] = 2 * Math.atan(theta[i]!); // the angular size itself, for display
+  fillAnglesFromHalfTans(theta, n); // the angular size itself, for display
   if (lm) {
     fillHalfTans(rng, lm.span, W, H, tanHalf, work, n);
     fillUniform(rng, lm.size, size, n);
@@ -143,22 +143,10 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
   let shares: RegimeShares | null = null;
   if (wantsFixedPoint) {
     fillUniform(rng, us!, work, n); // observer speed
-    if (lm) {
-      // the landmark is the fixed point: s = d / R (intercept theorem), w = u (1 - R / d)
-      for (let i = 0; i < n; i++) {
-        const R = range[i]!;
-        const d = dRange[i]!;
-        const ok = R > 0 && d > 0; // false for Number.NaN too
-        frac[i] = ok ? d / R : Number.NaN;
-        speed[i] = ok && work[i]! > 0 ? impliedSpeedUnchecked(work[i]!, R, d) : Number.NaN;
-      }
-    } else {
+    if (lm) fillLandmarkFixedPoint(range, dRange, work, frac, speed, n);
+    else {
       fillUniform(rng, ws!, speed, n); // assumed object speed
-      for (let i = 0; i < n; i++) {
-        const f = parallelFixedPointFraction(work[i]!, speed[i]!);
-        frac[i] = f === Infinity ? Number.NaN : f;
-        fdist[i] = f === Infinity ? Number.NaN : f * range[i]!;
-      }
+      fillParallelFixedPoint(work, speed, range, frac, fdist, n);
     }
     shares = regimeShares(frac, range, n);
   }
@@ -187,7 +175,9 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
 /* ---------------------------------------------------------------------------------------------- */
 
 /*
- * The passes. Inputs were validated once up front, so each draw runs the unchecked arithmetic
+ * The passes. Each is a function of its own with nothing after its loop: V8 compiles a long loop on
+ * the fly during the first solve, and a compiled loop followed by code that has never run bailed out
+ * on every later solve (see stats.ts). Inputs were validated once up front, so each draw runs the unchecked arithmetic
  * (camera.ts, range.ts) and turns a degenerate draw into NaN, which summarize drops.
  */
 
@@ -209,12 +199,81 @@ export function fillTanHalf(rng: Rng, hfov: Band, out: Float64Array, n: number):
  * the angle: range needs only that.
  */
 export function fillHalfTans(rng: Rng, s: SpanMark, W: number, H: number, tanHalf: Float64Array, out: Float64Array, n: number): void {
-  const [len, c0, q0] = spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H) as unknown as [number, number, number];
+  spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H, lineConstants);
+  const len = lineConstants[0]!;
+  const c0 = lineConstants[1]!;
+  const q0 = lineConstants[2]!;
   // normals first, geometry second: two simple loops pipeline better than one mixed loop
   rng.fillNormal(out, n, Math.SQRT2 * s.edgeSigmaPx);
   for (let i = 0; i < n; i++) {
     const h = spanHalfAngleTanUnchecked(len, c0, q0, out[i]!, (2 * tanHalf[i]!) / W);
     out[i] = h > 0 ? h : Number.NaN;
+  }
+}
+
+const lineConstants = new Float64Array(3);
+
+/**
+ * The ranges of one marked span over every draw, written into a draws-by-marks matrix: row i holds
+ * draw i's ranges of all `stride` marks, so that a per-draw fit reads them in one contiguous run.
+ * The same arithmetic as fillHalfTans followed by fillRanges, fused: range = L sin(a) / (2 h) with
+ * h = cross / (hypot + dot) is L sin(a) (hypot + dot) / (2 cross), one division a draw instead of
+ * three. `scale` holds L sin(a) per draw; `normals` is scratch for the edge errors.
+ */
+export function fillSpanRangeRows(
+  rng: Rng,
+  s: SpanMark,
+  W: number,
+  H: number,
+  tanHalf: Float64Array,
+  scale: Float64Array,
+  normals: Float64Array,
+  rows: Float64Array,
+  column: number,
+  stride: number,
+  n: number,
+): void {
+  spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H, lineConstants);
+  const len = lineConstants[0]!;
+  const c0 = lineConstants[1]!;
+  const q0 = lineConstants[2]!;
+  const invLen = 1 / len;
+  const len2 = len * len;
+  const c02 = c0 * c0;
+  const twoOverW = 2 / W;
+  rng.fillNormal(normals, n, Math.SQRT2 * s.edgeSigmaPx);
+  for (let i = 0, at = column; i < n; i++, at += stride) {
+    const e = normals[i]!;
+    const k = tanHalf[i]! * twoOverW;
+    // spanHalfAngleTanUnchecked, written out (see there)
+    const cross = k * (1 + e * invLen) * Math.sqrt(len2 + k * k * c02);
+    const dot = k * k * (q0 - 0.5 * e * len - 0.25 * e * e) + 1;
+    const r = (scale[i]! * (Math.sqrt(cross * cross + dot * dot) + dot)) / (2 * cross);
+    rows[at] = cross > 0 && r > 0 && r <= MAX_RANGE_M ? r : Number.NaN;
+  }
+}
+
+function fillAnglesFromHalfTans(halfTan: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) halfTan[i] = 2 * Math.atan(halfTan[i]!);
+}
+
+/** The landmark is the fixed point: s = d / R (intercept theorem), w = u (1 - R / d); u in `observer`. */
+function fillLandmarkFixedPoint(range: Float64Array, dRange: Float64Array, observer: Float64Array, frac: Float64Array, speed: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) {
+    const R = range[i]!;
+    const d = dRange[i]!;
+    const ok = R > 0 && d > 0; // false for Number.NaN too
+    frac[i] = ok ? d / R : Number.NaN;
+    speed[i] = ok && observer[i]! > 0 ? impliedSpeedUnchecked(observer[i]!, R, d) : Number.NaN;
+  }
+}
+
+/** The fixed point of parallel tracks from the observer's and an assumed object speed. */
+function fillParallelFixedPoint(observer: Float64Array, object: Float64Array, range: Float64Array, frac: Float64Array, fdist: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) {
+    const f = parallelFixedPointFraction(observer[i]!, object[i]!);
+    frac[i] = f === Number.POSITIVE_INFINITY ? Number.NaN : f;
+    fdist[i] = f === Number.POSITIVE_INFINITY ? Number.NaN : f * range[i]!;
   }
 }
 

@@ -7,8 +7,8 @@ import { getHeapSpaceStatistics } from 'node:v8';
 /*
  * Engine benchmark: a single-frame solve with 20 000 draws and a range fit over 50 timestamps with
  * 2 000 bootstrap draws, as medians over repeated runs and as a fraction of a 16.7 ms display frame.
- * Allocation per solve is read from the young generation's used size around one solve (new objects
- * land there). `npm run bench` gives Node a 256 MB young generation so that scavenges are rare; a
+ * Allocation is read from the young generation's used size around one solve (new objects land
+ * there), per solve and, as the slope between two draw counts, per draw. `npm run bench` gives Node a 256 MB young generation so that scavenges are rare; a
  * window in which one lands shows a drop and is left out. (A forced full collection between windows
  * would be cleaner, but it makes V8 drop optimised code and so measures something else.)
  */
@@ -55,27 +55,56 @@ export interface BenchRow {
   heapBytesPerDraw: number;
 }
 
-export function measure(name: string, draws: number, run: () => unknown, reps = 40): BenchRow {
-  for (let i = 0; i < 5; i++) run(); // warm up the JIT and the reusable columns
-  const times: number[] = [];
+/** Median young-generation growth over `reps` solves (windows with a scavenge in them are left out). */
+function growth(run: () => unknown, reps: number): number {
   const heap: number[] = [];
   for (let i = 0; i < reps; i++) {
     const before = youngUsed();
-    const t0 = performance.now();
     run();
-    times.push(performance.now() - t0);
     const grown = youngUsed() - before;
     if (grown >= 0) heap.push(grown);
   }
+  return heap.length ? median(heap) : NaN;
+}
+
+/*
+ * Warm-up runs for at least WARM_MS: V8 needs a few dozen solves before every hot function runs
+ * optimised code, and the figures are about that steady state, the one a live readout reaches.
+ */
+const WARM_MS = 400;
+
+/**
+ * Times `run(draws)` and reads its allocation. Heap per draw is the slope between `draws` and twice
+ * as many: what a solve allocates per draw, apart from the fixed cost of its result objects and
+ * validation (reported as heap per solve).
+ */
+export function measure(name: string, draws: number, run: (draws: number) => unknown, reps = 40): BenchRow {
+  for (const d of [draws, 2 * draws]) {
+    const until = performance.now() + WARM_MS / 2;
+    while (performance.now() < until) run(d);
+  }
+  const times: number[] = [];
+  for (let i = 0; i < reps; i++) {
+    const t0 = performance.now();
+    run(draws);
+    times.push(performance.now() - t0);
+  }
+  const perSolve = growth(() => run(draws), reps);
+  const perSolveDouble = growth(() => run(2 * draws), reps);
   const ms = median(times);
-  const h = heap.length ? median(heap) : NaN;
-  return { name, medianMs: ms, frameShare: ms / FRAME_MS, heapBytesPerSolve: h, heapBytesPerDraw: h / draws };
+  return {
+    name,
+    medianMs: ms,
+    frameShare: ms / FRAME_MS,
+    heapBytesPerSolve: perSolve,
+    heapBytesPerDraw: Math.max(perSolveDouble - perSolve, 0) / draws,
+  };
 }
 
 export function engineBench(): BenchRow[] {
   const series = seriesScene(50);
   return [
-    measure('single-frame solve, 20 000 draws', 20_000, () => solveFrame(frameScene, { draws: 20_000, seed: 1 })),
-    measure('range fit, 50 timestamps, 2 000 bootstrap draws', 2_000, () => solveSeries(series, { draws: 2_000, seed: 1 })),
+    measure('single-frame solve, 20 000 draws', 20_000, (draws) => solveFrame(frameScene, { draws, seed: 1 })),
+    measure('range fit, 50 timestamps, 2 000 bootstrap draws', 2_000, (draws) => solveSeries(series, { draws, seed: 1 })),
   ];
 }

@@ -10,7 +10,7 @@ function print(rows: BenchRow[]): void {
     console.log(
       `${r.name}: median ${r.medianMs.toFixed(2)} ms = ${r.frameShare.toFixed(3)} of a 16.7 ms frame ` +
         `(target < ${TARGET_FRAME_SHARE}: ${ok}); heap growth ${Math.round(r.heapBytesPerSolve)} B per solve, ` +
-        `${r.heapBytesPerDraw.toFixed(2)} B per draw`,
+        `${r.heapBytesPerDraw.toFixed(2)} B more per extra draw`,
     );
   }
 }

@@ -98,6 +98,8 @@ export class OverlayHost {
     const doc = this.video.ownerDocument;
     const fs = doc.fullscreenElement;
     const parent = fs && fs !== this.video && fs.contains(this.video) ? fs : doc.documentElement;
+    // read the video's box before adding anything: a read after would lay the page out again
+    this.place(true);
     if (this.el.parentNode !== parent) parent.appendChild(this.el);
     const wantTop = fs === this.video;
     if (wantTop) {
@@ -115,7 +117,6 @@ export class OverlayHost {
       }
       this.el.removeAttribute('popover');
     }
-    this.place(true);
   }
 
   get signal(): AbortSignal {

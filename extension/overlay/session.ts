@@ -138,6 +138,35 @@ export class MeasureSession {
       this.live,
     );
     root.append(this.surface, this.magnifier, this.panel);
+    this.finishAfterFirstFrame();
+  }
+
+  /**
+   * Calling the overlay up draws the panel first and finishes a frame later: placing the panel where
+   * it does not cover the picture just before that first paint, then listeners, notices, the stored
+   * case and focus just after it. Every layout read during the mount itself (panel height, the
+   * video's box, focus) would force the page to lay out the half-built overlay again, which cost
+   * more than the whole rest of the mount. The host carries `data-ready` once this is done.
+   */
+  private finishAfterFirstFrame(): void {
+    const view = this.video.ownerDocument.defaultView ?? window;
+    const signal = this.host.signal;
+    let placed = false;
+    const beforePaint = () => {
+      if (placed || signal.aborted) return;
+      placed = true;
+      this.placePanel();
+      // a timer after the frame: runs once the panel has been painted
+      view.setTimeout(() => {
+        if (!signal.aborted) this.finishMount();
+      }, 0);
+    };
+    view.requestAnimationFrame(beforePaint);
+    // a tab in the background draws no frames: finish anyway
+    view.setTimeout(beforePaint, 100);
+  }
+
+  private finishMount(): void {
     this.host.placed = () => {
       this.invalidateMapping();
       this.placePanel();
@@ -147,6 +176,7 @@ export class MeasureSession {
     this.describeVideo();
     void this.openCase();
     this.surface.focus();
+    this.host.el.dataset.ready = '';
   }
 
   /* ----------------------------------------------------------------------------------------- */

@@ -65,6 +65,7 @@ async function openVideoPage(app: Loaded, server: TestServer, path: string): Pro
 interface BenchWindow {
   __benchT0: number;
   __benchReady: number;
+  __benchFinished: number;
 }
 
 /*
@@ -75,11 +76,16 @@ interface BenchWindow {
  * again each frame. Paint is not included. The empty script stamps performance.now() itself: the
  * isolated world shares the document's time origin, so both stamps are on one clock.
  */
-async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string): Promise<number> {
+async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string): Promise<{ drawn: number; finished: number }> {
   const page = await openVideoPage(app, server, `/plain.html?bench-inject-${tag}`);
   await page.evaluate(() => {
     const w = window as unknown as BenchWindow;
     w.__benchReady = NaN;
+    w.__benchFinished = NaN;
+    const finished = () => {
+      if (document.querySelector('clip-caliper-overlay')?.hasAttribute('data-ready')) w.__benchFinished = performance.now();
+      else setTimeout(finished, 1);
+    };
     const laidOut = () => {
       const panel = document.querySelector('clip-caliper-overlay')?.shadowRoot?.querySelector('.panel');
       if (!panel) return false;
@@ -94,15 +100,16 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
       if (!document.querySelector('clip-caliper-overlay')) return;
       mo.disconnect();
       poll();
+      finished();
     });
     mo.observe(document.documentElement, { childList: true, subtree: true });
     w.__benchT0 = performance.now();
   });
   await injectOverlay(app, page.url());
-  await page.waitForFunction(() => !Number.isNaN((window as unknown as BenchWindow).__benchReady), null, { timeout: 10_000 });
+  await page.waitForFunction(() => !Number.isNaN((window as unknown as BenchWindow).__benchFinished), null, { timeout: 10_000 });
   const ms = await page.evaluate(() => {
     const w = window as unknown as BenchWindow;
-    return w.__benchReady - w.__benchT0;
+    return { drawn: w.__benchReady - w.__benchT0, finished: w.__benchFinished - w.__benchT0 };
   });
   await page.close();
   return ms;
@@ -136,15 +143,21 @@ async function printInjection(app: Loaded, server: TestServer): Promise<void> {
   await overlayInjectionMs(app, server, 'warm');
   await emptyInjectionMs(app, server, extPage, 'warm');
   const overlay: number[] = [];
+  const finished: number[] = [];
   const empty: number[] = [];
+  const overlayOnce = async (i: number) => {
+    const { drawn, finished: f } = await overlayInjectionMs(app, server, String(i));
+    overlay.push(drawn);
+    finished.push(f);
+  };
   for (let i = 0; i < REPETITIONS; i++) {
     // alternating which goes first keeps a drift in the machine's load from favouring either
     if (i % 2 === 0) {
-      overlay.push(await overlayInjectionMs(app, server, String(i)));
+      await overlayOnce(i);
       empty.push(await emptyInjectionMs(app, server, extPage, String(i)));
     } else {
       empty.push(await emptyInjectionMs(app, server, extPage, String(i)));
-      overlay.push(await overlayInjectionMs(app, server, String(i)));
+      await overlayOnce(i);
     }
   }
   await extPage.close();
@@ -155,6 +168,8 @@ async function printInjection(app: Loaded, server: TestServer): Promise<void> {
     `overlay injection to laid-out panel: median ${o.toFixed(1)} ms vs empty script ${e.toFixed(1)} ms ` +
       `over ${REPETITIONS} fresh pages each = ${ratio.toFixed(2)}x (target < ${TARGET_INJECT_RATIO}x: ${verdict(ratio < TARGET_INJECT_RATIO)})`,
   );
+  // the panel is drawn first; listeners, notices, the stored case and focus follow after its first frame
+  console.log(`overlay injection to fully wired (host data-ready, after the first frame): median ${median(finished).toFixed(1)} ms`);
 }
 
 interface DragFigures {

@@ -27,16 +27,28 @@ function dropOverlayFromWebAccessible(): Plugin {
   };
 }
 
-export default defineConfig(({ mode }) => ({
-  publicDir: 'extension/public',
-  plugins: [preact(), crx({ manifest }), dropOverlayFromWebAccessible()],
-  build: {
-    // the e2e build (host permission for the local test origins) never lands in dist/
-    outDir: mode === 'e2e' ? 'dist-e2e' : 'dist',
-    emptyOutDir: true,
-    // source maps stay out of the shipped build; the store packages must not carry them
-    sourcemap: false,
-    target: 'chrome120',
-  },
-  server: { strictPort: true },
-}));
+/** Where each mode's build lands: the e2e and Firefox builds never overwrite the shipped dist/. */
+export function outDirFor(mode: string): string {
+  if (mode === 'e2e') return 'dist-e2e';
+  if (mode === 'firefox') return 'dist-firefox';
+  return 'dist';
+}
+
+export default defineConfig(({ mode }) => {
+  const firefox = mode === 'firefox';
+  return {
+    publicDir: 'extension/public',
+    // crxjs's firefox target writes background.scripts (with its loader) instead of a service worker
+    plugins: [preact(), crx(firefox ? { manifest, browser: 'firefox' } : { manifest }), dropOverlayFromWebAccessible()],
+    build: {
+      // the e2e build (host permission for the local test origins) never lands in dist/
+      outDir: outDirFor(mode),
+      emptyOutDir: true,
+      // source maps stay out of the shipped build; the store packages must not carry them
+      sourcemap: false,
+      // the Firefox floor is the manifest's strict_min_version (manifest.config.ts says why)
+      target: firefox ? 'firefox140' : 'chrome120',
+    },
+    server: { strictPort: true },
+  };
+});

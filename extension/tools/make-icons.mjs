@@ -4,7 +4,12 @@
 import { deflateSync } from 'node:zlib';
 import { writeFileSync, mkdirSync } from 'node:fs';
 
-const SIZES = [16, 32, 48, 96, 128];
+// Chromium asks for 16, 32, 48 and 128 (developer.chrome.com, "Configure extension icons"); Firefox
+// picks by size and screen density, a main icon with a double-size one (MDN, manifest.json `icons`:
+// 32/64, 48/96). The 128 is the Chrome Web Store's listing icon, whose artwork is 96 x 96 with 16
+// transparent pixels on every side (developer.chrome.com, "Supplying images", Extension icon).
+const SIZES = [16, 32, 48, 64, 96, 128];
+const PADDING = { 128: 16 };
 const out = new URL('../public/icons/', import.meta.url);
 mkdirSync(out, { recursive: true });
 
@@ -29,13 +34,16 @@ function paint(x, y) {
 
 function png(size) {
   const ss = 4;
+  const pad = PADDING[size] ?? 0;
+  const art = size - 2 * pad;
   const rows = [];
   for (let py = 0; py < size; py++) {
     const row = Buffer.alloc(1 + size * 4);
     for (let px = 0; px < size; px++) {
       let r = 0, g = 0, b = 0, a = 0;
       for (let sy = 0; sy < ss; sy++) for (let sx = 0; sx < ss; sx++) {
-        const c = paint((px + (sx + 0.5) / ss) / size, (py + (sy + 0.5) / ss) / size);
+        const x = (px - pad + (sx + 0.5) / ss) / art, y = (py - pad + (sy + 0.5) / ss) / art;
+        const c = x >= 0 && x <= 1 && y >= 0 && y <= 1 ? paint(x, y) : null;
         if (c) { r += c[0]; g += c[1]; b += c[2]; a += 1; }
       }
       const o = 1 + px * 4;

@@ -1,6 +1,22 @@
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { browser, extensionVersion, message } from '../shared/browser';
-import { casesForPage, deleteMark, openCase, putMark, readCase, setAssumptions } from './cases';
+import {
+  annotateCase,
+  casesForPage,
+  deleteCase,
+  deleteMark,
+  exportCases,
+  importCases,
+  listCases,
+  openCase,
+  putMark,
+  readCase,
+  requestSeek,
+  setAssumptions,
+  storageUsage,
+  takeSeek,
+  undeleteCase,
+} from './cases';
 import { foreignFrameOrigins, injectIntoOrigin, injectOverlay } from './inject';
 import { routeMessages } from './router';
 
@@ -27,6 +43,15 @@ browser.runtime.onMessage.addListener(
     },
     'frames/foreign': async ({ tabId }) => ({ origins: await foreignFrameOrigins(tabId) }),
     'overlay/inject-origin': async ({ tabId, origin }) => ({ frames: await injectIntoOrigin(tabId, origin) }),
+    'cases/list': async () => listCases(),
+    'case/annotate': async ({ caseId, notes, status, tags }) => annotateCase(caseId, { notes, status, tags }),
+    'case/delete': async ({ caseId }) => deleteCase(caseId),
+    'case/undelete': async ({ caseId }) => undeleteCase(caseId),
+    'cases/import': async ({ text }) => importCases(text),
+    'cases/export': async ({ caseIds }) => exportCases(caseIds),
+    'storage/usage': async () => storageUsage(),
+    'seek/request': async ({ pageUrl, t }) => requestSeek(pageUrl, t),
+    'seek/take': async ({ pageUrl }) => takeSeek(pageUrl),
   }),
 );
 

@@ -1,4 +1,5 @@
-import type { CaseAssumptions, CaseRecord, Mark, VideoInfo } from '../../src/case/schema';
+import type { CaseListing, QuarantineEntry, StorageUsage } from '../../src/case/listing';
+import type { CaseAssumptions, CaseRecord, CaseStatus, Mark, VideoInfo } from '../../src/case/schema';
 
 /**
  * The one typed contract for messages between background, overlay and popup. Each request names
@@ -27,6 +28,24 @@ export interface RequestMap {
   'frames/foreign': { payload: { tabId: number }; reply: { origins: string[] } };
   /** After the user granted an origin: call the overlay up in that origin's frames that hold a video. */
   'overlay/inject-origin': { payload: { tabId: number; origin: string }; reply: { frames: number } };
+
+  /* the case log */
+  /** Every readable case as a listing, with what was quarantined and the storage in use. */
+  'cases/list': { payload: Record<string, never>; reply: { cases: CaseListing[]; quarantined: QuarantineEntry[]; usage: StorageUsage } };
+  /** Set a case's notes, status, tags (any subset); saved before the reply. */
+  'case/annotate': { payload: { caseId: string; notes?: string; status?: CaseStatus; tags?: string[] }; reply: CaseRecord };
+  /** Delete a case; it can be brought back with case/undelete until the browser closes. */
+  'case/delete': { payload: { caseId: string }; reply: { deleted: true } };
+  'case/undelete': { payload: { caseId: string }; reply: CaseRecord };
+  /** Validate a case file whole, then merge it (same id: both versions kept, newest in front). */
+  'cases/import': { payload: { text: string }; reply: { added: string[]; merged: string[] } };
+  /** One case or all (no ids) as a case file. */
+  'cases/export': { payload: { caseIds?: string[] }; reply: { fileName: string; text: string } };
+  'storage/usage': { payload: Record<string, never>; reply: StorageUsage };
+  /** The log opens a case's page: the overlay, once called up there, seeks to this timestamp. */
+  'seek/request': { payload: { pageUrl: string; t: number }; reply: Record<string, never> };
+  /** The overlay, on mounting, takes the seek waiting for its page (null when none); taking clears it. */
+  'seek/take': { payload: { pageUrl: string }; reply: { t: number | null } };
 }
 
 export type RequestType = keyof RequestMap;

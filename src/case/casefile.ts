@@ -1,9 +1,12 @@
-import { CaseFormatError, validateCase } from './validate';
-import type { CaseRecord } from './schema';
+import { readCaseRecord } from './migrate';
+import { SCHEMA_VERSION, type CaseRecord } from './schema';
+import { CaseFormatError } from './validate';
 
 /**
- * The case file a reviewer hands on: one case, wrapped so that a reader can tell what it holds
- * and which schema it follows. It alone reproduces every figure (analysis.ts, summary.ts).
+ * The case file a reviewer hands on: one case (`case`) or many (`cases`), wrapped so that a reader
+ * can tell what it holds and which schema it follows. One case alone reproduces every figure
+ * (analysis.ts, summary.ts); `npm run solve` reads a file of one case. The file's shape is
+ * documented field by field in case-file.schema.json.
  */
 export const CASE_FILE_FORMAT = 'clip-caliper-case';
 
@@ -14,28 +17,91 @@ export interface CaseFile {
   case: CaseRecord;
 }
 
+export interface CasesFile {
+  format: typeof CASE_FILE_FORMAT;
+  schema: number;
+  exportedBy: string;
+  cases: CaseRecord[];
+}
+
 export function toCaseFile(c: CaseRecord, toolVersion: string): CaseFile {
   return { format: CASE_FILE_FORMAT, schema: c.schema, exportedBy: `Clip Caliper ${toolVersion}`, case: c };
 }
 
-/** Files above this are refused before parsing: no real case comes near it. */
-export const MAX_CASE_FILE_BYTES = 20 * 1024 * 1024;
+/** Several cases in one file (the log's "export all"); one case still goes out as a CaseFile. */
+export function toCasesFile(cases: readonly CaseRecord[], toolVersion: string): CasesFile {
+  return { format: CASE_FILE_FORMAT, schema: SCHEMA_VERSION, exportedBy: `Clip Caliper ${toolVersion}`, cases: [...cases] };
+}
 
 /**
- * Reads a case file's text: JSON only (nothing in it is ever run), the whole case validated before
- * anything uses it; the error names the first bad field by its path.
+ * Limits that stop absurd files before they cost anything. 20 MiB is twice the whole local
+ * storage quota (10 MiB), so no file that could be imported is refused for its size alone.
  */
-export function parseCaseFile(text: string): CaseRecord {
-  if (text.length > MAX_CASE_FILE_BYTES) throw new CaseFormatError('file', `larger than ${MAX_CASE_FILE_BYTES} bytes`);
+export const MAX_CASE_FILE_BYTES = 20 * 1024 * 1024;
+/** Five times the thousand cases the log is built to stay quick with. */
+export const MAX_CASES_PER_FILE = 5_000;
+
+/**
+ * Reads a case file's text into its cases: JSON only (nothing in it is ever run or rendered),
+ * each record migrated from its own schema version, and the whole file validated before any
+ * case is returned; the error names the first bad field by its path.
+ */
+export function parseCaseFileAll(text: string): CaseRecord[] {
+  if (typeof text !== 'string') throw new CaseFormatError('file', 'expected the text of a file');
+  // a string's UTF-8 size is at least its length; count exactly only when it could matter
+  const bytes = text.length > MAX_CASE_FILE_BYTES ? text.length : text.length * 3 > MAX_CASE_FILE_BYTES ? utf8Length(text) : 0;
+  if (bytes > MAX_CASE_FILE_BYTES) throw new CaseFormatError('file', `larger than ${MAX_CASE_FILE_BYTES} bytes (the limit for a case file)`);
   let raw: unknown;
   try {
     raw = JSON.parse(text);
   } catch (e) {
     throw new CaseFormatError('file', `not JSON (${(e as Error).message})`);
   }
-  const o = raw as Partial<CaseFile> | null;
-  if (!o || typeof o !== 'object' || o.format !== CASE_FILE_FORMAT) {
-    throw new CaseFormatError('file.format', `expected "${CASE_FILE_FORMAT}"`);
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw new CaseFormatError('file', 'expected an object');
+  const o = raw as Record<string, unknown>;
+  if (o.format !== CASE_FILE_FORMAT) throw new CaseFormatError('file.format', `expected "${CASE_FILE_FORMAT}"`);
+  if (typeof o.schema !== 'number' || !Number.isInteger(o.schema) || o.schema < 1) {
+    throw new CaseFormatError('file.schema', `expected a whole number from 1 to ${SCHEMA_VERSION}`);
   }
-  return validateCase(o.case, 'file.case');
+  if (o.schema > SCHEMA_VERSION) {
+    throw new CaseFormatError('file.schema', `version ${o.schema} was written by a newer Clip Caliper; this one reads versions 1 to ${SCHEMA_VERSION}`);
+  }
+  if (o.exportedBy !== undefined && (typeof o.exportedBy !== 'string' || o.exportedBy.length > 200)) {
+    throw new CaseFormatError('file.exportedBy', 'expected text of at most 200 characters');
+  }
+  const hasOne = 'case' in o;
+  const hasMany = 'cases' in o;
+  if (hasOne === hasMany) throw new CaseFormatError('file', 'expected either "case" (one case) or "cases" (a list), not both or neither');
+  if (hasOne) return [readCaseRecord(o.case, 'file.case')];
+  if (!Array.isArray(o.cases)) throw new CaseFormatError('file.cases', 'expected a list');
+  if (o.cases.length === 0) throw new CaseFormatError('file.cases', 'expected at least one case');
+  if (o.cases.length > MAX_CASES_PER_FILE) {
+    throw new CaseFormatError('file.cases', `expected at most ${MAX_CASES_PER_FILE} cases, got ${o.cases.length}`);
+  }
+  return o.cases.map((c, i) => readCaseRecord(c, `file.cases[${i}]`));
+}
+
+/**
+ * Reads a file of one case (what the recompute takes): a single-case file, or a list holding
+ * exactly one. Files written by earlier versions are migrated.
+ */
+export function parseCaseFile(text: string): CaseRecord {
+  const all = parseCaseFileAll(text);
+  if (all.length !== 1) throw new CaseFormatError('file.cases', `holds ${all.length} cases; this reads one (export that case alone)`);
+  return all[0]!;
+}
+
+/** UTF-8 bytes of a string (what a file of it weighs), without building the bytes. */
+export function utf8Length(s: string): number {
+  let n = 0;
+  for (let i = 0; i < s.length; i++) {
+    const c = s.charCodeAt(i);
+    if (c < 0x80) n += 1;
+    else if (c < 0x800) n += 2;
+    else if (c >= 0xd800 && c <= 0xdbff && i + 1 < s.length && (s.charCodeAt(i + 1) & 0xfc00) === 0xdc00) {
+      n += 4;
+      i++;
+    } else n += 3; // a lone surrogate becomes U+FFFD, three bytes
+  }
+  return n;
 }

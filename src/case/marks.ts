@@ -1,8 +1,8 @@
-import { SCHEMA_VERSION, type CaseAssumptions, type CaseRecord, type Mark, type VideoInfo } from './schema';
+import { SCHEMA_VERSION, type CaseAssumptions, type CaseRecord, type CaseStatus, type Mark, type VideoInfo } from './schema';
 
-/** A new, empty case for a video. */
+/** A new, empty case for a video: open, untagged, with no earlier versions. */
 export function newCase(id: string, video: VideoInfo, toolVersion: string, now: number): CaseRecord {
-  return { schema: SCHEMA_VERSION, id, video, marks: [], notes: '', createdAt: now, updatedAt: now, toolVersion };
+  return { schema: SCHEMA_VERSION, id, video, marks: [], notes: '', status: 'open', tags: [], history: [], createdAt: now, updatedAt: now, toolVersion };
 }
 
 /** The case with a mark added, or replaced when one with the same id exists (a nudged end). Non-mutating. */
@@ -25,4 +25,19 @@ export function withVideo(c: CaseRecord, video: VideoInfo, now: number): CaseRec
 /** The case with its assumptions set. Non-mutating. */
 export function withAssumptions(c: CaseRecord, assumptions: CaseAssumptions, now: number): CaseRecord {
   return { ...c, assumptions, updatedAt: now };
+}
+
+/**
+ * The case with the moderator's notes, status and tags set, each only when given (a field left
+ * out keeps its value, so two views editing different fields do not undo each other). Validate
+ * the values first (validate.ts validateNotes, validateStatus, normaliseTags). Non-mutating.
+ */
+export function withAnnotation(c: CaseRecord, a: { notes?: string; status?: CaseStatus; tags?: string[] }, now: number): CaseRecord {
+  return {
+    ...c,
+    ...(a.notes !== undefined ? { notes: a.notes } : {}),
+    ...(a.status !== undefined ? { status: a.status } : {}),
+    ...(a.tags !== undefined ? { tags: [...a.tags] } : {}),
+    updatedAt: now,
+  };
 }

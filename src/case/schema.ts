@@ -1,9 +1,11 @@
 /**
  * The case model: one measured video, its marks and the assumptions behind its figures. Stored one
- * key per case (`case:<id>`), versioned so that later schema changes migrate in order (the case-log
- * work adds migrations; version 1 is the first).
+ * key per case (`case:<id>`), versioned so that later schema changes migrate in order
+ * (migrate.ts holds the steps; every read and every import runs them before validating).
+ *
+ * Version 1: video, marks, notes, assumptions. Version 2 (the case log): status, tags, history.
  */
-export const SCHEMA_VERSION = 1;
+export const SCHEMA_VERSION = 2;
 
 /** What a mark measures. */
 export type MarkKind =
@@ -102,7 +104,28 @@ export interface CaseAssumptions {
   laneCycleId?: string;
   /** What the object is taken to be, for the plausibility verdict (plausibility.ts ObjectKind). */
   objectKind?: 'fixed-wing-transport' | 'fixed-wing-light' | 'light-sport' | 'rotorcraft' | 'unknown';
+  /** Which way the object moves against the observer's travel; absent or 'unknown': every reading is shown. */
+  direction?: 'opposite' | 'same' | 'unknown';
+  /** Wind component against the object's motion, m/s (negative: a tailwind); absent: no wind assumed. */
+  headwindMs?: Range;
+  /**
+   * The camera kept its aim (a tripod, or a mount fixed to the vehicle): marks then give bearings,
+   * and bearings with ranges give the object's ground track. axisHeadingDeg is the optical axis
+   * against the observer's direction of travel (0 ahead, 90 to the right, -90 to the left).
+   */
+  fixedCamera?: { mount: 'tripod' | 'vehicle'; axisHeadingDeg: Range };
 }
+
+/** Where a moderator stands on a case: our own three words. */
+export type CaseStatus = 'open' | 'explained' | 'second-look';
+export const CASE_STATUSES: readonly CaseStatus[] = ['open', 'explained', 'second-look'];
+
+/** Limits on what a moderator writes (validate.ts enforces them; the log view can show them). */
+export const MAX_NOTES_CHARS = 20_000;
+export const MAX_TAGS = 20;
+export const MAX_TAG_CHARS = 40;
+/** Earlier versions one case keeps; an import that would need more is refused, never trimmed. */
+export const MAX_HISTORY = 50;
 
 export interface CaseRecord {
   schema: number;
@@ -110,10 +133,22 @@ export interface CaseRecord {
   video: VideoInfo;
   marks: Mark[];
   notes: string;
+  /** Since version 2; 'open' for a case migrated from version 1. */
+  status: CaseStatus;
+  /** Since version 2: trimmed, distinct, 1 to MAX_TAG_CHARS characters each, at most MAX_TAGS. */
+  tags: string[];
+  /**
+   * Since version 2: earlier versions of this same case that an import met (the other side of a
+   * merge), newest first. Never edited, only added to, so a merge cannot lose either side.
+   */
+  history: CaseVersion[];
   assumptions?: CaseAssumptions;
   createdAt: number;
   updatedAt: number;
   toolVersion: string;
 }
+
+/** One earlier version of a case: the record without its own history, and when it was set aside. */
+export type CaseVersion = Omit<CaseRecord, 'history'> & { keptAt: number };
 
 export const caseKey = (id: string) => `case:${id}`;

@@ -249,8 +249,8 @@ function marksSection(c: CaseRecord, r: CaseAnalysis): Section {
 type Stored = CaseAssumptions[keyof CaseAssumptions];
 
 function sameStored(x: Stored, y: Stored): boolean {
-  if (typeof x === 'object' && typeof y === 'object') return x.lo === y.lo && x.hi === y.hi;
-  return x === y;
+  // stored values are plain data (strings, ranges, a small object of them): compare them as data
+  return JSON.stringify(x) === JSON.stringify(y);
 }
 
 function assumptionsSection(c: CaseRecord, r: CaseAnalysis, system: UnitSystem): Section {

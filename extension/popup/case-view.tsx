@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'preact/hooks';
-import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
+import { analyseCase, type CaseAnalysis, type SpeedReading } from '../../src/case/analysis';
 import { defaultAssumptions } from '../../src/case/assumptions';
 import { parseBand } from '../../src/case/bands';
 import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
@@ -10,8 +10,9 @@ import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '
 import { rangePlot } from '../../src/case/plots';
 import { summaryText, type SummaryFormat } from '../../src/case/summary';
 import { toCaseFile } from '../../src/case/casefile';
-import { extensionVersion, send } from '../shared/browser';
+import { extensionVersion, message, send } from '../shared/browser';
 import { RangePlotView } from './range-plot';
+import { CameraPicker, DirectionPicker, MountPicker, SizePicker } from './pickers';
 import { PlanViewSvg } from './plan-view';
 
 const DEG = Math.PI / 180;
@@ -22,31 +23,72 @@ function stamp(t: number): string {
   return `${m}:${(t - 60 * m).toFixed(3).padStart(6, '0')} (${t.toFixed(3)} s)`;
 }
 
+type StoredRange = { lo: number; hi: number };
+
 interface FieldDef {
-  key: 'hfovDeg' | 'objectSizeM' | 'aspectDeg' | 'landmarkSizeM' | 'observerSpeedMs';
+  /** Names the input (`field-<key>`): the stored field, or the nested one for the camera's aim. */
+  key: string;
   label: string;
   kind: Quantity;
   unit: string;
   optional?: boolean;
   hint: string;
+  /** Allowed range in stored units (degrees, metres, m/s), as the case validation has it. */
+  min: number;
+  max: number;
+  get: (a: CaseAssumptions) => StoredRange | undefined;
+  set: (a: CaseAssumptions, r: StoredRange | undefined) => CaseAssumptions;
+  /** Shown in km/h when stored in m/s. */
+  speed?: boolean;
 }
 
+const direct = (key: 'hfovDeg' | 'objectSizeM' | 'aspectDeg' | 'landmarkSizeM' | 'observerSpeedMs' | 'headwindMs') => ({
+  key,
+  get: (a: CaseAssumptions) => a[key],
+  set: (a: CaseAssumptions, r: StoredRange | undefined) => {
+    const next = { ...a };
+    if (r) next[key] = r;
+    else delete next[key];
+    return next;
+  },
+});
+
 const FIELDS: FieldDef[] = [
-  { key: 'hfovDeg', label: 'Camera field of view (horizontal)', kind: 'angle', unit: 'deg', hint: 'e.g. 39 to 41 deg' },
-  { key: 'objectSizeM', label: 'Object size (the dimension marked)', kind: 'length', unit: 'm', hint: 'e.g. 24-36 m (code letter C wingspan)' },
-  { key: 'aspectDeg', label: 'Aspect angle (90 = broadside)', kind: 'angle', unit: 'deg', hint: 'e.g. 75 to 90' },
-  { key: 'landmarkSizeM', label: 'Landmark size', kind: 'length', unit: 'm', hint: 'e.g. 10-20 m' },
-  { key: 'observerSpeedMs', label: 'Observer speed', kind: 'speed', unit: 'km/h', optional: true, hint: 'e.g. 90 km/h ± 10, or leave empty' },
+  { ...direct('hfovDeg'), label: message('caseFovLabel'), kind: 'angle', unit: 'deg', hint: message('caseFovHint'), min: 0.01, max: 179.9 },
+  { ...direct('objectSizeM'), label: message('caseSizeLabel'), kind: 'length', unit: 'm', hint: message('caseSizeHint'), min: 0.001, max: 1000 },
+  { ...direct('aspectDeg'), label: message('caseAspectLabel'), kind: 'angle', unit: 'deg', hint: message('caseAspectHint'), min: 0.01, max: 179.99 },
+  { ...direct('landmarkSizeM'), label: message('caseLandmarkSizeLabel'), kind: 'length', unit: 'm', hint: message('caseLandmarkSizeHint'), min: 0.001, max: 1000 },
+  { ...direct('observerSpeedMs'), label: message('caseObserverSpeedLabel'), kind: 'speed', unit: 'km/h', optional: true, speed: true, hint: message('caseObserverSpeedHint'), min: 0, max: 1000 },
+  { ...direct('headwindMs'), label: message('caseWindLabel'), kind: 'speed', unit: 'km/h', optional: true, speed: true, hint: message('caseWindHint'), min: -60, max: 60 },
 ];
 
+/** The camera's aim, shown once the camera is said to be fixed. */
+const AIM_FIELD: FieldDef = {
+  key: 'axisHeadingDeg',
+  label: message('caseAimLabel'),
+  kind: 'angle',
+  unit: 'deg',
+  hint: message('caseAimHint'),
+  min: -180,
+  max: 180,
+  get: (a) => a.fixedCamera?.axisHeadingDeg,
+  set: (a, r) => (a.fixedCamera && r ? { ...a, fixedCamera: { ...a.fixedCamera, axisHeadingDeg: r } } : a),
+};
+
 function shown(a: CaseAssumptions, f: FieldDef): string {
-  const r = a[f.key];
+  const r = f.get(a);
   if (!r) return '';
   // degrees and metres are stored as such; speed is stored in m/s and shown in km/h
-  const k = f.key === 'observerSpeedMs' ? 3.6 : 1;
+  const k = f.speed ? 3.6 : 1;
   const lo = +(r.lo * k).toPrecision(4);
   const hi = +(r.hi * k).toPrecision(4);
   return lo === hi ? `${lo} ${f.unit}` : `${lo} to ${hi} ${f.unit}`;
+}
+
+/** The allowed range in the unit the field is typed in. */
+function allowedText(f: FieldDef): string {
+  const k = f.speed ? 3.6 : 1;
+  return message('caseAllowedRange', [String(+(f.min * k).toPrecision(4)), String(+(f.max * k).toPrecision(4)), f.unit]);
 }
 
 /** One assumption: typed with units; a wrong entry is marked here and the last valid one stays. */
@@ -57,9 +99,7 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
   const commit = () => {
     if (f.optional && text.trim() === '') {
       setError(null);
-      const next = { ...a };
-      delete next[f.key as 'observerSpeedMs'];
-      onSave(next);
+      if (f.get(a)) onSave(f.set(a, undefined));
       return;
     }
     try {
@@ -68,11 +108,13 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
       const toStored = f.kind === 'angle' ? 1 / DEG : 1;
       const lo = b.lo * toStored;
       const hi = b.hi * toStored;
-      const cur = a[f.key];
+      if (!(lo >= f.min - 1e-9 && hi <= f.max + 1e-9)) throw new Error(message('caseOutsideAllowed', [f.label, text.trim(), allowedText(f)]));
+      const cur = f.get(a);
       setError(null);
       // leaving a field without changing it writes nothing
       if (cur && Math.abs(cur.lo - lo) < 1e-9 * Math.max(1, Math.abs(lo)) && Math.abs(cur.hi - hi) < 1e-9 * Math.max(1, Math.abs(hi))) return;
-      onSave({ ...a, [f.key]: { lo, hi }, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) });
+      const next = f.set(a, { lo, hi });
+      onSave({ ...next, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) });
     } catch (e) {
       setError((e as Error).message);
     }
@@ -100,30 +142,49 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
   );
 }
 
+const READING_LABELS: Readonly<Record<SpeedReading['basis'], string>> = {
+  landmark: message('caseReadingLandmark'),
+  track: message('caseReadingTrack'),
+  'fit-opposite': message('caseReadingOpposite'),
+  'fit-same-slower': message('caseReadingSameSlower'),
+  'fit-same-faster': message('caseReadingSameFaster'),
+};
+
+/** A fraction as a percentage with its interval. */
+function pctEstimate(e: Estimate): string {
+  const p = (x: number) => (100 * x).toFixed(0);
+  return message('casePercentEstimate', [p(e.median), p(e.p05), p(e.p95)]);
+}
+
 function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
   const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, system);
   const plot = useMemo(() => rangePlot(r), [r]);
   return (
-    <section aria-label="Results" data-testid="results">
-      <h2>Figures, each with its 5–95 % interval</h2>
-      {r.timestamps.length === 0 && <p class="muted">Mark the object’s ends in the overlay to see its range.</p>}
+    <section aria-label={message('caseResultsLabel')} data-testid="results">
+      <h2>{message('caseFiguresHeading')}</h2>
+      {r.timestamps.length === 0 && <p class="muted">{message('caseMarkToSee')}</p>}
       {r.timestamps.map((ts) => (
         <div class="result" data-testid="timestamp">
           <div class="stamp">{stamp(ts.t)}</div>
-          <div>
-            Span {ts.spanPx.toFixed(1)} px · angular size {formatQuantity(ts.result.angularSize.median, 'angle', system, 3)}
+          <div>{message('caseSpan', [ts.spanPx.toFixed(1), est(ts.result.angularSize, 'angle')])}</div>
+          <div class="big" data-testid="range">
+            {message('caseRange', est(ts.result.range, 'distance'))}
           </div>
-          <div class="big" data-testid="range">Range {est(ts.result.range, 'distance')}</div>
-          {ts.result.landmarkRange && <div>Landmark range {est(ts.result.landmarkRange, 'distance')}</div>}
+          {ts.result.landmarkRange && <div>{message('caseLandmarkRange', est(ts.result.landmarkRange, 'distance'))}</div>}
           {ts.result.fixedPointFraction && ts.regime && (
-            <div>
-              Motionless point at {(100 * ts.result.fixedPointFraction.median).toFixed(0)} % of the way to the object ({ts.regime})
+            <div data-testid="fixed-point-text">
+              {ts.result.regimeShares
+                ? message('caseFixedPointDraws', [pctEstimate(ts.result.fixedPointFraction), ts.regime, (100 * ts.result.regimeShares[ts.regime]).toFixed(0)])
+                : message('caseFixedPoint', [pctEstimate(ts.result.fixedPointFraction), ts.regime])}
+              {ts.result.fixedPointDistance && message('caseFixedPointFrom', est(ts.result.fixedPointDistance, 'distance'))}
             </div>
           )}
           {ts.result.impliedSpeed && (
             <div data-testid="implied-speed">
-              Implied object speed {est(ts.result.impliedSpeed, 'speed')}
-              {ts.result.impliedSpeed.p95 < 0 ? ' (opposite direction)' : ts.result.impliedSpeed.p05 > 0 ? ' (same direction)' : ''}
+              {message(
+                ts.result.impliedSpeed.p95 < 0 ? 'caseImpliedSpeedOpposite' : ts.result.impliedSpeed.p05 > 0 ? 'caseImpliedSpeedSame' : 'caseImpliedSpeed',
+                est(ts.result.impliedSpeed, 'speed'),
+              )}
             </div>
           )}
         </div>
@@ -132,35 +193,60 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
       <PlanViewSvg r={r} system={system} />
       {r.series ? (
         <div class="result" data-testid="series">
-          <div class="stamp">Range over time</div>
-          <div>Closest approach {est(r.series.closestApproach, 'distance')}</div>
-          <div>Relative speed {est(r.series.relativeSpeed, 'speed')}</div>
-          {r.series.objectSpeed?.opposite && <div>Object speed, opposite direction {est(r.series.objectSpeed.opposite, 'speed')}</div>}
-          {r.series.objectSpeed?.sameSlower && <div>Object speed, same direction and slower {est(r.series.objectSpeed.sameSlower, 'speed')}</div>}
-          {r.series.objectSpeed?.sameFaster && <div>Object speed, same direction and faster {est(r.series.objectSpeed.sameFaster, 'speed')}</div>}
+          <div class="stamp">{message('caseRangeOverTime')}</div>
+          <div>{message('caseClosestApproach', est(r.series.closestApproach, 'distance'))}</div>
+          <div>{message('caseRelativeSpeed', est(r.series.relativeSpeed, 'speed'))}</div>
+          {r.readings
+            .filter((x) => x.basis.startsWith('fit-'))
+            .map((x) => (
+              <div data-testid="fit-reading">
+                {READING_LABELS[x.basis]} {est(x.speed, 'speed')}
+              </div>
+            ))}
           {r.window && (
             <div data-testid="window">
-              Within ±{formatQuantity(r.window.halfAngle, 'angle', system)} of abeam (half the field of view) for {est(r.window.estimate, 'time')}
-              {r.window.clipLength !== null ? `; the clip is ${formatQuantity(r.window.clipLength, 'time', system)} long` : ''}
+              {r.window.clipLength !== null
+                ? message('caseWindowClip', [formatQuantity(r.window.halfAngle, 'angle', system), est(r.window.estimate, 'time'), formatQuantity(r.window.clipLength, 'time', system)])
+                : message('caseWindow', [formatQuantity(r.window.halfAngle, 'angle', system), est(r.window.estimate, 'time')])}
             </div>
           )}
         </div>
       ) : (
         <p class="muted">{r.seriesMissing}</p>
       )}
-      {r.verdict ? (
-        <div class="result verdict" data-testid="verdict">
-          <div class="big">{VERDICT_SENTENCES[r.verdict.level]}</div>
-          <div class="muted">
-            {r.verdict.rule.text} ({r.verdict.rule.source})
-          </div>
-          {r.verdict.hover && (
-            <div>
-              Hovering would need a headwind of {formatQuantity(r.verdict.hover.headwindNeededMs, 'speed', system)}: Beaufort force {r.verdict.hover.beaufort.force} (
-              {r.verdict.hover.beaufort.description}).
-            </div>
-          )}
+      {r.track ? (
+        <div class="result" data-testid="track">
+          <div class="stamp">{message('caseTrackHeading')}</div>
+          <div class="big">{message('caseGroundSpeed', est(r.track.speed, 'speed'))}</div>
+          <div>{message('caseHeading', est(r.track.heading, 'angle'))}</div>
+          <div>{message('caseTrackClosest', est(r.track.closestApproach, 'distance'))}</div>
         </div>
+      ) : (
+        <p class="muted" data-testid="track-missing">{r.trackMissing}</p>
+      )}
+      {r.verdicts.length > 0 ? (
+        r.verdicts.map((j) => (
+          <div class="result verdict" data-testid="verdict">
+            <div class="big">{VERDICT_SENTENCES[j.verdict.level]}</div>
+            <div>
+              {r.assumptions.headwind
+                ? message('caseJudgedWind', [READING_LABELS[j.reading.basis].toLowerCase(), est(j.reading.speed, 'speed'), est(j.airspeed, 'speed')])
+                : message('caseJudged', [READING_LABELS[j.reading.basis].toLowerCase(), est(j.reading.speed, 'speed')])}
+            </div>
+            <div class="muted">
+              {j.verdict.rule.text} ({j.verdict.rule.source})
+            </div>
+            {j.verdict.hover && (
+              <div>
+                {message('caseHover', [
+                  formatQuantity(j.verdict.hover.headwindNeededMs, 'speed', system),
+                  String(j.verdict.hover.beaufort.force),
+                  j.verdict.hover.beaufort.description,
+                ])}
+              </div>
+            )}
+          </div>
+        ))
       ) : (
         <p class="muted">{r.verdictMissing}</p>
       )}
@@ -169,6 +255,12 @@ function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
       ))}
     </section>
   );
+}
+
+/** The dimension the object's spans were marked as (the latest span's), for the size classes offered. */
+function dimensionMarked(c: CaseRecord): 'wingspan' | 'length' {
+  const spans = c.marks.filter((m) => m.kind === 'object-span');
+  return spans[spans.length - 1]?.dimension === 'length' ? 'length' : 'wingspan';
 }
 
 /** The case file a colleague recomputes with `npm run solve -- FILE`; named by case and date. */
@@ -189,26 +281,26 @@ function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitS
   const text = (format: SummaryFormat) => summaryText(c, r, { format, system, toolVersion: extensionVersion() });
   const copy = (format: SummaryFormat) =>
     navigator.clipboard.writeText(text(format)).then(
-      () => setStatus(format === 'markdown' ? 'Summary copied as Markdown.' : 'Summary copied as plain text.'),
-      (e: Error) => setStatus(`Could not copy: ${e.message}`),
+      () => setStatus(message(format === 'markdown' ? 'caseCopiedMarkdown' : 'caseCopiedText')),
+      (e: Error) => setStatus(message('caseCopyFailed', e.message)),
     );
   return (
-    <section aria-label="Share" class="share">
+    <section aria-label={message('caseShareLabel')} class="share">
       <button type="button" class="secondary" data-testid="copy-text" onClick={() => copy('text')}>
-        Copy summary
+        {message('caseCopySummary')}
       </button>{' '}
       <button type="button" class="secondary" data-testid="copy-markdown" onClick={() => copy('markdown')}>
-        Copy as Markdown
+        {message('caseCopyMarkdown')}
       </button>
       <button type="button" class="secondary" data-testid="export" onClick={() => exportCase(c)}>
-        Export case file
+        {message('caseExport')}
       </button>
       <span class="muted" role="status" data-testid="copy-status">
         {' '}
         {status}
       </span>
       <details>
-        <summary>Preview the summary</summary>
+        <summary>{message('casePreview')}</summary>
         <pre data-testid="summary-preview">{text('text')}</pre>
       </details>
     </section>
@@ -222,25 +314,29 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
   const save = (next: CaseAssumptions) => {
     send('case/assume', { caseId: c.id, assumptions: next }).then(
       () => setSaveError(null),
-      (e: Error) => setSaveError(`Not saved: ${e.message}`),
+      (e: Error) => setSaveError(message('caseNotSaved', e.message)),
     );
   };
   return (
     <article data-testid="case">
       <h2 class="title">{c.video.pageTitle || c.video.pageUrl}</h2>
       <p class="muted">
-        {c.marks.length} marks · video {c.video.width}×{c.video.height}
-        {r.assumptions.defaults ? ' · default assumptions' : ''}
+        {message(r.assumptions.defaults ? 'caseMarksVideoDefaults' : 'caseMarksVideo', [String(c.marks.length), String(c.video.width), String(c.video.height)])}
       </p>
       <p class="muted" data-testid="labels">
-        Camera: {r.assumptions.cameraLabel} · Object: {r.assumptions.sizeLabel}
+        {message('caseLabels', [r.assumptions.cameraLabel, r.assumptions.sizeLabel])}
       </p>
-      <section aria-label="Assumptions" class="assumptions">
+      <section aria-label={message('caseAssumptionsLabel')} class="assumptions">
+        <CameraPicker a={a} onSave={save} />
+        <SizePicker a={a} onSave={save} dimension={dimensionMarked(c)} />
         {FIELDS.map((f) => (
-          <Field key={`${c.id}-${f.key}-${JSON.stringify(a[f.key] ?? null)}`} f={f} a={a} onSave={save} />
+          <Field key={`${c.id}-${f.key}-${JSON.stringify(f.get(a) ?? null)}`} f={f} a={a} onSave={save} />
         ))}
+        <DirectionPicker a={a} onSave={save} />
+        <MountPicker a={a} onSave={save} />
+        {a.fixedCamera && <Field key={`${c.id}-aim-${JSON.stringify(AIM_FIELD.get(a) ?? null)}`} f={AIM_FIELD} a={a} onSave={save} />}
         <div class="field">
-          <label for="field-lanes">Lane-line cycle on the road (to measure the observer speed from dash passes)</label>
+          <label for="field-lanes">{message('caseLanesLabel')}</label>
           <select
             id="field-lanes"
             data-testid="field-lanes"
@@ -253,7 +349,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
               save(next);
             }}
           >
-            <option value="">none: use the speed given above</option>
+            <option value="">{message('caseLanesNone')}</option>
             {LANE_CYCLES.map((l) => (
               <option value={l.id} title={l.source}>
                 {l.label} ({l.cycleM.toFixed(2)} m)
@@ -262,8 +358,13 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
           </select>
           {r.laneSpeed && (
             <div data-testid="lane-speed">
-              Observer speed measured from {r.laneSpeed.passes} dash passes: {formatQuantity(r.laneSpeed.speed.median, 'speed', system)} (
-              {formatQuantity(r.laneSpeed.speed.lo, 'speed', system)} to {formatQuantity(r.laneSpeed.speed.hi, 'speed', system)}); cycle from {r.laneSpeed.source}
+              {message('caseLaneSpeed', [
+                String(r.laneSpeed.passes),
+                formatQuantity(r.laneSpeed.speed.median, 'speed', system),
+                formatQuantity(r.laneSpeed.speed.lo, 'speed', system),
+                formatQuantity(r.laneSpeed.speed.hi, 'speed', system),
+                r.laneSpeed.source,
+              ])}
             </div>
           )}
           {r.laneSpeedMissing && <div class="muted">{r.laneSpeedMissing}</div>}

@@ -2,14 +2,15 @@ import { useMemo, useState } from 'preact/hooks';
 import type { CaseAnalysis } from '../../src/case/analysis';
 import { planView, type PlanView } from '../../src/case/plots';
 import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+import { message } from '../shared/browser';
 import { savePicture } from './save-picture';
 
 const W = 440;
 const H = 240;
 const LABELS: Record<PlanView['direction'], string> = {
-  opposite: 'flying the other way',
-  'same-slower': 'same way, slower',
-  'same-faster': 'same way, faster',
+  opposite: message('planOpposite'),
+  'same-slower': message('planSameSlower'),
+  'same-faster': message('planSameFaster'),
 };
 
 /**
@@ -32,7 +33,7 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
     <figure class="plot">
       {readings.length > 1 && (
         <label class="muted">
-          Direction of the object:{' '}
+          {message('planDirectionLabel')}{' '}
           <select value={p.direction} onChange={(e) => setDirection((e.target as HTMLSelectElement).value as PlanView['direction'])} data-testid="plan-direction">
             {readings.map((d) => (
               <option value={d}>{LABELS[d]}</option>
@@ -41,11 +42,26 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
         </label>
       )}
       <svg id="plan-view" xmlns="http://www.w3.org/2000/svg" viewBox={`0 0 ${W} ${H}`} role="img" aria-label={p.description} data-testid="plan-view">
+        <rect
+          data-testid="track-band"
+          x="0"
+          width={W}
+          y={y(p.trackBand.hi)}
+          height={Math.max(y(p.trackBand.lo) - y(p.trackBand.hi), 1)}
+          fill="#e8590c"
+          fill-opacity="0.12"
+        >
+          <title>
+            {message('planTrackBand', [formatQuantity(p.trackBand.lo, 'distance', system), formatQuantity(p.trackBand.hi, 'distance', system)])}
+          </title>
+        </rect>
         <line x1="0" x2={W} y1={y(0)} y2={y(0)} stroke="currentColor" stroke-width="3" stroke-opacity="0.5" />
-        <text x="4" y={y(0) - 5} font-size="10" fill="currentColor">observer’s road</text>
+        <text x="4" y={y(0) - 5} font-size="10" fill="currentColor">
+          {message('planRoad')}
+        </text>
         <line x1="0" x2={W} y1={y(p.trackDistance)} y2={y(p.trackDistance)} stroke="#e8590c" stroke-dasharray="6 4" />
         <text x="4" y={y(p.trackDistance) - 5} font-size="10" fill="currentColor">
-          object’s track, {formatQuantity(p.trackDistance, 'distance', system)} away
+          {message('planTrack', formatQuantity(p.trackDistance, 'distance', system))}
         </text>
         {p.sightLines.map((l) => (
           <g data-testid="sight-line" data-x1={l.observer.x} data-y1={l.observer.y} data-x2={l.object.x} data-y2={l.object.y}>
@@ -57,8 +73,15 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
         {p.fixedPoint && (
           <g data-testid="fixed-point" data-x={p.fixedPoint.x} data-y={p.fixedPoint.y}>
             <circle cx={x(p.fixedPoint.x)} cy={y(p.fixedPoint.y)} r="5" fill="none" stroke="#2b8a3e" stroke-width="2" />
-            <text x={x(p.fixedPoint.x) + 8} y={y(p.fixedPoint.y) + 4} font-size="10" fill="currentColor">
-              motionless point, {formatQuantity(p.fixedPoint.fromRoad, 'distance', system)} from the road
+            {/* the label on whichever side of the point has room */}
+            <text
+              x={x(p.fixedPoint.x) < W * 0.4 ? x(p.fixedPoint.x) + 8 : x(p.fixedPoint.x) - 8}
+              text-anchor={x(p.fixedPoint.x) < W * 0.4 ? 'start' : 'end'}
+              y={y(p.fixedPoint.y) + 4}
+              font-size="10"
+              fill="currentColor"
+            >
+              {message(p.mode === 'single' ? 'planLandmarkPoint' : 'planFixedPoint', formatQuantity(p.fixedPoint.fromRoad, 'distance', system))}
             </text>
           </g>
         )}
@@ -68,12 +91,12 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
         </text>
       </svg>
       <figcaption class="muted">
-        {p.description} Drawn from the medians; each figure’s interval is listed above.{' '}
+        {p.description} {message('planCaption')}{' '}
         <button type="button" class="secondary" onClick={() => void savePicture(document.getElementById('plan-view') as unknown as SVGSVGElement, 'plan-view', 'svg')} data-testid="plan-svg">
-          Save as SVG
+          {message('planSaveSvg')}
         </button>{' '}
         <button type="button" class="secondary" onClick={() => void savePicture(document.getElementById('plan-view') as unknown as SVGSVGElement, 'plan-view', 'png')} data-testid="plan-png">
-          Save as PNG
+          {message('planSavePng')}
         </button>
       </figcaption>
     </figure>

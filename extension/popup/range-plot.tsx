@@ -1,5 +1,6 @@
 import type { RangePlot } from '../../src/case/plots';
 import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+import { message } from '../shared/browser';
 import { savePicture } from './save-picture';
 
 const W = 440;
@@ -30,7 +31,7 @@ export function RangePlotView({ p, system }: { p: RangePlot; system: UnitSystem 
           </text>
         ))}
         <text x={(M.left + W - M.right) / 2} y={H - 4} text-anchor="middle" font-size="10" fill="currentColor">
-          time in the clip
+          {message('plotTimeAxis')}
         </text>
         <path d={path} fill="none" stroke="#0b63c7" stroke-width="2" data-testid="fit-curve" />
         {p.points.map((q) => (
@@ -43,20 +44,20 @@ export function RangePlotView({ p, system }: { p: RangePlot; system: UnitSystem 
       <figcaption class="muted">
         {p.description}{' '}
         <button type="button" class="secondary" onClick={() => save('svg')}>
-          Save as SVG
+          {message('plotSaveSvg')}
         </button>{' '}
         <button type="button" class="secondary" onClick={() => save('png')} data-testid="range-png">
-          Save as PNG
+          {message('plotSavePng')}
         </button>
       </figcaption>
       <table class="sr">
-        <caption>Range at each timestamp</caption>
+        <caption>{message('plotTableCaption')}</caption>
         <tbody>
           {p.points.map((q) => (
             <tr>
               <td>{q.t.toFixed(3)} s</td>
               <td>
-                {formatQuantity(q.median, 'distance', system)} ({formatQuantity(q.p05, 'distance', system)} to {formatQuantity(q.p95, 'distance', system)})
+                {message('plotTableRange', [formatQuantity(q.median, 'distance', system), formatQuantity(q.p05, 'distance', system), formatQuantity(q.p95, 'distance', system)])}
               </td>
             </tr>
           ))}

@@ -2,6 +2,7 @@ import { laneCycleById, observerSpeedFromDashes } from '../engine/lanes';
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
 import { observationWindow } from '../engine/speed';
 import { solveSeries, type SeriesResult } from '../engine/series';
+import { solveTrack, type TrackResult } from '../engine/track-series';
 import type { Estimate } from '../engine/stats';
 import { solveFrame, type FrameResult, type RegimeShares } from '../engine/uncertainty';
 import { engineAssumptions, type EngineAssumptions } from './assumptions';
@@ -34,6 +35,23 @@ export interface LaneSpeed {
   speed: { lo: number; median: number; hi: number };
 }
 
+/** One reading of the object's ground speed, with what it rests on. */
+export interface SpeedReading {
+  /** Where the reading comes from: a pinned landmark, the range-over-time fit (per direction), or the ground track. */
+  basis: 'landmark' | 'fit-opposite' | 'fit-same-slower' | 'fit-same-faster' | 'track';
+  /** The timestamp of a landmark reading. */
+  t?: number;
+  speed: Estimate;
+}
+
+/** A verdict on one reading (with the wind assumed, if any). */
+export interface JudgedReading {
+  reading: SpeedReading;
+  /** The speed through the air the verdict judged: the ground speed plus the headwind band. */
+  airspeed: Estimate;
+  verdict: Verdict;
+}
+
 export interface CaseAnalysis {
   assumptions: EngineAssumptions;
   /** Set when the observer speed in `assumptions` was measured from lane dashes. */
@@ -44,7 +62,18 @@ export interface CaseAnalysis {
   series: SeriesResult | null;
   /** Why there is no range-over-time fit, in one line, when there is none. */
   seriesMissing: string | null;
-  verdict: Verdict | null;
+  /** Fixed-camera ground track, when the camera kept its aim and 2 or more timestamps are marked. */
+  track: TrackResult | null;
+  /** Why there is no ground track, in one line. */
+  trackMissing: string | null;
+  /**
+   * The object's ground speed readings, in order of what they rest on: a landmark first (it settles
+   * the direction), then the ground track, then the fit's readings for each direction of travel the
+   * direction assumption leaves open ("unknown" keeps them all: both answers).
+   */
+  readings: SpeedReading[];
+  /** A verdict per reading that can be judged: several when the direction is not settled. */
+  verdicts: JudgedReading[];
   verdictMissing: string | null;
   /**
    * How long the pass keeps the object within half the field of view of abeam, 2 D' tan(A) / V,
@@ -59,6 +88,7 @@ export interface CaseAnalysis {
 export interface AnalysisOptions {
   draws?: number;
   seriesDraws?: number;
+  trackDraws?: number;
   seed?: number;
 }
 
@@ -116,16 +146,46 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     }
   }
 
-  let verdict: Verdict | null = null;
-  let verdictMissing: string | null = null;
-  const withSpeed = timestamps.find((x) => x.result.impliedSpeed);
-  if (!a.observerSpeed) verdictMissing = 'A verdict needs the observer’s speed (given, or measured from lane dashes).';
-  else if (!withSpeed) verdictMissing = 'A verdict needs a landmark the object seems pinned over, marked on the same frame as its ends.';
+  let track: TrackResult | null = null;
+  let trackMissing: string | null = null;
+  if (!a.fixedCamera) trackMissing = 'A ground track needs a camera that kept its aim (a tripod, or a mount fixed to the vehicle): say so in the assumptions.';
+  else if (distinct.length < 2) trackMissing = `A ground track needs the object’s ends marked at 2 or more timestamps (${distinct.length} so far).`;
+  else if (a.fixedCamera.mount === 'vehicle' && !a.observerSpeed) trackMissing = 'A ground track from a moving vehicle needs the observer’s speed (given, or measured from lane dashes).';
   else {
     try {
-      verdict = judgeSpeed({ groundSpeed: magnitude(withSpeed.result.impliedSpeed!), kind: a.objectKind });
+      track = solveTrack(
+        {
+          frame: frameSize,
+          hfov: a.hfov,
+          object: { size: a.objectSize, aspect: a.aspect },
+          marks: distinct.map((m) => ({ t: m.t, span: spanInFrame(m, frame) })),
+          axisHeading: a.fixedCamera.axisHeading,
+          cameraSpeed: a.fixedCamera.mount === 'tripod' ? { lo: 0, hi: 0 } : a.observerSpeed!,
+        },
+        { draws: options.trackDraws ?? 1_000, seed },
+      );
     } catch (err) {
-      verdictMissing = `No verdict: ${(err as Error).message}`;
+      trackMissing = `No ground track: ${(err as Error).message}`;
+    }
+  }
+
+  const readings = speedReadings(timestamps, track, series, a.direction);
+  const verdicts: JudgedReading[] = [];
+  let verdictMissing: string | null = null;
+  if (readings.length === 0) {
+    verdictMissing = !a.observerSpeed && !track
+      ? 'A verdict needs the observer’s speed (given, or measured from lane dashes).'
+      : 'A verdict needs an object speed: a landmark the object seems pinned over (marked on the same frame as its ends), 3 or more timestamps for the fit, or a fixed camera’s ground track.';
+  } else {
+    // a landmark or a ground track settles the direction; only the fit's readings come one per direction
+    const judged = readings[0]!.basis === 'landmark' || readings[0]!.basis === 'track' ? [readings[0]!] : readings;
+    for (const reading of judged) {
+      const airspeed = withHeadwind(reading.speed, a.headwind);
+      try {
+        verdicts.push({ reading, airspeed, verdict: judgeSpeed({ groundSpeed: airspeed, kind: a.objectKind }) });
+      } catch (err) {
+        verdictMissing = `No verdict: ${(err as Error).message}`;
+      }
     }
   }
   let window: CaseAnalysis['window'] = null;
@@ -146,7 +206,56 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
       window = null;
     }
   }
-  return { assumptions: a, laneSpeed: lanes.speed, laneSpeedMissing: lanes.missing, frame, timestamps, series, seriesMissing, verdict, verdictMissing, window, problems };
+  return {
+    assumptions: a,
+    laneSpeed: lanes.speed,
+    laneSpeedMissing: lanes.missing,
+    frame,
+    timestamps,
+    series,
+    seriesMissing,
+    track,
+    trackMissing,
+    readings,
+    verdicts,
+    verdictMissing,
+    window,
+    problems,
+  };
+}
+
+/** The readings in the order CaseAnalysis.readings documents, the fit's filtered by the direction assumed. */
+function speedReadings(
+  timestamps: readonly TimestampFigures[],
+  track: TrackResult | null,
+  series: SeriesResult | null,
+  direction: EngineAssumptions['direction'],
+): SpeedReading[] {
+  const out: SpeedReading[] = [];
+  const pinned = timestamps.find((x) => x.result.impliedSpeed);
+  if (pinned) out.push({ basis: 'landmark', t: pinned.t, speed: magnitude(pinned.result.impliedSpeed!) });
+  if (track) out.push({ basis: 'track', speed: track.speed });
+  const o = series?.objectSpeed;
+  if (o) {
+    if (o.opposite && direction !== 'same') out.push({ basis: 'fit-opposite', speed: o.opposite });
+    if (o.sameSlower && direction !== 'opposite') out.push({ basis: 'fit-same-slower', speed: o.sameSlower });
+    if (o.sameFaster && direction !== 'opposite') out.push({ basis: 'fit-same-faster', speed: o.sameFaster });
+  }
+  return out;
+}
+
+/**
+ * The speed through the air: ground speed plus the headwind. The wind band's ends widen the
+ * interval's ends (cautious: the two are not combined as independent draws).
+ */
+export function withHeadwind(ground: Estimate, headwind: { lo: number; hi: number } | null): Estimate {
+  if (!headwind) return ground;
+  const mid = (headwind.lo + headwind.hi) / 2;
+  return {
+    p05: Math.max(ground.p05 + headwind.lo, 0),
+    median: Math.max(ground.median + mid, 0),
+    p95: Math.max(ground.p95 + headwind.hi, 0),
+  };
 }
 
 /*

@@ -39,6 +39,11 @@ export interface EngineAssumptions {
   observerSpeed: Band | null;
   laneCycleId: string | null;
   objectKind: NonNullable<CaseAssumptions['objectKind']>;
+  direction: NonNullable<CaseAssumptions['direction']>;
+  /** Wind against the object's motion, m/s; null: none assumed. */
+  headwind: Band | null;
+  /** A camera that kept its aim, with the aim in radians; null: hand-held (no ground track). */
+  fixedCamera: { mount: 'tripod' | 'vehicle'; axisHeading: Band } | null;
   /** True when these are the tool's defaults, not the user's. */
   defaults: boolean;
 }
@@ -55,6 +60,11 @@ export function engineAssumptions(a: CaseAssumptions | undefined): EngineAssumpt
     observerSpeed: u.observerSpeedMs ? { ...u.observerSpeedMs } : null,
     laneCycleId: u.laneCycleId ?? null,
     objectKind: u.objectKind ?? 'unknown',
+    direction: u.direction ?? 'unknown',
+    headwind: u.headwindMs ? { ...u.headwindMs } : null,
+    fixedCamera: u.fixedCamera
+      ? { mount: u.fixedCamera.mount, axisHeading: { lo: u.fixedCamera.axisHeadingDeg.lo * DEG, hi: u.fixedCamera.axisHeadingDeg.hi * DEG } }
+      : null,
     defaults: a === undefined,
   };
 }

@@ -71,6 +71,11 @@ export function niceTicks(lo: number, hi: number, target = 5): { min: number; ma
  * camera's height and foreshortens nothing else.
  */
 export interface PlanView {
+  /**
+   * 'pass': from the range-over-time fit, a sight line per timestamp. 'single': one frame with a
+   * landmark on its sight line, drawn abeam, since one picture gives no bearing to the road.
+   */
+  mode: 'pass' | 'single';
   direction: 'opposite' | 'same-slower' | 'same-faster';
   /** Metres: x along the road (direction of travel), y across toward the object. */
   trackDistance: number;
@@ -78,6 +83,8 @@ export interface PlanView {
   objectSpeed: number;
   sightLines: { t: number; observer: { x: number; y: number }; object: { x: number; y: number } }[];
   fixedPoint: { x: number; y: number; fromRoad: number } | null;
+  /** The 5-95 % interval of the track's distance from the road, drawn as a band. */
+  trackBand: { lo: number; hi: number };
   bounds: { xMin: number; xMax: number; yMin: number; yMax: number };
   description: string;
 }
@@ -85,7 +92,8 @@ export interface PlanView {
 export function planView(a: CaseAnalysis, direction?: PlanView['direction']): PlanView | null {
   const s = a.series;
   const u = a.assumptions.observerSpeed;
-  if (!s || !u || a.timestamps.length < 2) return null;
+  if (!u) return null;
+  if (!s || a.timestamps.length < 2) return singleFramePlan(a, (u.lo + u.hi) / 2);
   const speeds = s.objectSpeed ?? {};
   const pick =
     direction ?? (speeds.opposite ? 'opposite' : speeds.sameSlower ? 'same-slower' : speeds.sameFaster ? 'same-faster' : null);
@@ -123,7 +131,37 @@ export function planView(a: CaseAnalysis, direction?: PlanView['direction']): Pl
     objectSpeed: w,
     sightLines,
     fixedPoint,
-    bounds: { xMin: Math.min(...xs) - pad, xMax: Math.max(...xs) + pad, yMin: Math.min(...ys) - pad, yMax: Math.max(...ys) + pad },
+    trackBand: { lo: s.closestApproach.p05, hi: s.closestApproach.p95 },
+    bounds: { xMin: Math.min(...xs) - pad, xMax: Math.max(...xs) + pad, yMin: Math.min(...ys) - pad, yMax: Math.max(s.closestApproach.p95, ...ys) + pad },
+    mode: 'pass',
     description: `Plan view to scale: the observer's road, the object's track ${D.toFixed(0)} m away, ${sightLines.length} sight lines; reading the object as flying ${pick.replace('-', ' and ')}, the motionless point lies ${where}${fixedPoint ? `, ${fixedPoint.fromRoad.toFixed(0)} m from the road` : ''}.`,
+  };
+}
+
+/**
+ * One frame whose object seems pinned over a landmark: the sight line from the observer through
+ * the landmark (the motionless point, by the intercept theorem) to the object, drawn square to the
+ * road; the object's track runs parallel to the road at its range. Speeds are the medians.
+ */
+function singleFramePlan(a: CaseAnalysis, u: number): PlanView | null {
+  const ts = a.timestamps.find((x) => x.result.impliedSpeed && x.result.landmarkRange);
+  if (!ts) return null;
+  const R = ts.result.range.median;
+  const d = ts.result.landmarkRange!.median;
+  const w = ts.result.impliedSpeed!.median;
+  const direction = w < 0 ? 'opposite' : w <= u ? 'same-slower' : 'same-faster';
+  const pad = Math.max(ts.result.range.p95, u) * 0.08;
+  const half = Math.max(R, ts.result.range.p95) * 0.6;
+  return {
+    mode: 'single',
+    direction,
+    trackDistance: R,
+    observerSpeed: u,
+    objectSpeed: w,
+    sightLines: [{ t: ts.t, observer: { x: 0, y: 0 }, object: { x: 0, y: R } }],
+    fixedPoint: { x: 0, y: d, fromRoad: d },
+    trackBand: { lo: ts.result.range.p05, hi: ts.result.range.p95 },
+    bounds: { xMin: -half, xMax: half, yMin: -pad, yMax: ts.result.range.p95 + pad },
+    description: `Plan view of the frame at ${ts.t.toFixed(2)} s, drawn abeam (one picture gives no bearing to the road): the object ${R.toFixed(0)} m away on the sight line, the landmark it seems pinned over ${d.toFixed(0)} m away (the motionless point), the object flying ${direction.replace('-', ' and ')} at ${Math.abs(w).toFixed(0)} m/s against the observer's ${u.toFixed(0)} m/s.`,
   };
 }

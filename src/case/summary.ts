@@ -4,7 +4,7 @@ import type { Estimate } from '../engine/stats';
 import type { RegimeShares } from '../engine/uncertainty';
 import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../engine/units';
 import { finite, inRange } from '../engine/validate';
-import { magnitude, type CaseAnalysis, type TimestampFigures } from './analysis';
+import { magnitude, type CaseAnalysis, type JudgedReading, type SpeedReading, type TimestampFigures } from './analysis';
 import { defaultAssumptions } from './assumptions';
 import type { CaseAssumptions, CaseRecord, Mark } from './schema';
 
@@ -155,6 +155,28 @@ const KIND_TEXT: Readonly<Record<Mark['kind'], string>> = {
 
 const INTERVAL_NOTE = 'median and 5-95 % interval';
 
+const DIRECTION_TEXT: Readonly<Record<CaseAnalysis['assumptions']['direction'], string>> = {
+  opposite: 'against the observer’s travel',
+  same: 'the same way as the observer',
+  unknown: 'not known, so every reading the picture allows is shown',
+};
+
+/** What a speed reading rests on, as a sentence fragment. */
+function readingText(x: SpeedReading): string {
+  switch (x.basis) {
+    case 'landmark':
+      return `the implied ground speed at ${formatStamp(x.t!)} (a landmark on the sight line)`;
+    case 'track':
+      return 'the fixed camera’s ground track';
+    case 'fit-opposite':
+      return 'the range-over-time fit, if the object moves against the observer';
+    case 'fit-same-slower':
+      return 'the range-over-time fit, if the object moves the same way, slower';
+    case 'fit-same-faster':
+      return 'the range-over-time fit, if the object moves the same way, faster';
+  }
+}
+
 function buildDoc(c: CaseRecord, r: CaseAnalysis, system: UnitSystem, toolVersion: string): Doc {
   return {
     title: DOC_TITLE,
@@ -283,6 +305,14 @@ function assumptionsSection(c: CaseRecord, r: CaseAnalysis, system: UnitSystem):
           : `not given; there is no default, so no implied speed and no verdict${r.laneSpeedMissing ? ` (${r.laneSpeedMissing})` : ''}`,
     ],
     ['Kind of object', `${kindLabel} (${origin('objectKind')})`],
+    ['Direction of travel', `${DIRECTION_TEXT[a.direction]} (${origin('direction')})`],
+    ['Wind', a.headwind ? `${bandText(a.headwind, 'speed')} against the object’s motion, negative for a tailwind (${origin('headwindMs')})` : `none assumed (${origin('headwindMs')})`],
+    [
+      'Camera aim',
+      a.fixedCamera
+        ? `kept fixed (${a.fixedCamera.mount === 'tripod' ? 'a tripod' : 'a mount fixed to the vehicle'}), the optical axis ${bandText(a.fixedCamera.axisHeading, 'angle')} from the observer’s direction of travel, positive to the right (${origin('fixedCamera')})`
+        : `hand-held or turning: no ground track (${origin('fixedCamera')})`,
+    ],
   ];
   const lead = a.defaults
     ? 'Nothing was entered for this case: every assumption below is the tool’s default.'
@@ -378,6 +408,7 @@ function resultsSection(r: CaseAnalysis, system: UnitSystem): Section {
   }
   blocks.push({ kind: 'sub', title: 'Per timestamp', blocks: perTime });
   blocks.push({ kind: 'sub', title: 'Range over time', blocks: seriesBlocks(r, system) });
+  blocks.push({ kind: 'sub', title: 'Ground track (fixed camera)', blocks: trackBlocks(r, system) });
   blocks.push({ kind: 'sub', title: 'Verdict on the picture', blocks: verdictBlocks(r, system) });
   if (r.problems.length > 0) blocks.push({ kind: 'sub', title: 'Marks that could not be solved', blocks: [{ kind: 'list', items: [...r.problems] }] });
   return { title: 'Results', blocks };
@@ -391,38 +422,67 @@ function seriesBlocks(r: CaseAnalysis, system: UnitSystem): Block[] {
     ['Relative speed', formatEstimate(s.relativeSpeed, 'speed', system)],
     ['Time of closest approach', formatEstimate(s.tClosest, 'time', system)],
   ];
-  const o = s.objectSpeed;
-  if (!o) rows.push(['Object speed', 'needs the observer’s speed']);
+  const fit = r.readings.filter((x) => x.basis.startsWith('fit-'));
+  if (!s.objectSpeed) rows.push(['Object speed', 'needs the observer’s speed']);
+  else if (fit.length === 0) rows.push(['Object speed', `no reading fits both the draws and the direction assumed (${DIRECTION_TEXT[r.assumptions.direction]})`]);
   else {
-    if (o.opposite) rows.push(['Object speed, if opposite', formatEstimate(o.opposite, 'speed', system)]);
-    if (o.sameSlower) rows.push(['Object speed, if same way, slower', formatEstimate(o.sameSlower, 'speed', system)]);
-    if (o.sameFaster) rows.push(['Object speed, if same way, faster', formatEstimate(o.sameFaster, 'speed', system)]);
-    if (!o.opposite && !o.sameSlower && !o.sameFaster) rows.push(['Object speed', 'no direction of travel fits enough of the draws']);
+    for (const x of fit) {
+      const label = x.basis === 'fit-opposite' ? 'Object speed, if opposite' : x.basis === 'fit-same-slower' ? 'Object speed, if same way, slower' : 'Object speed, if same way, faster';
+      rows.push([label, formatEstimate(x.speed, 'speed', system)]);
+    }
+  }
+  if (r.window) {
+    rows.push(['Observation window', `${formatEstimate(r.window.estimate, 'time', system)} within ${formatQuantity(r.window.halfAngle, 'angle', system)} of abeam (half the field of view)`]);
+    rows.push(['Against the clip', r.window.clipLength === null ? 'a live stream, of no fixed length' : `${formatQuantity(r.window.clipLength, 'time', system)} long, exactly (the video’s duration)`]);
   }
   rows.push(['Failed fits', `${pct(s.failedShare)} % of draws (left out of the figures)`]);
   return [
     {
       kind: 'para',
-      text: 'Closest approach includes the height difference; the object speed is given for each direction of travel the draws allow, since the picture alone does not say which.',
+      text: 'Closest approach includes the height difference; the object speed is given for each direction of travel the draws and the direction assumed allow, since the picture alone does not say which. The observation window is 2 D tan(A) / V, its ends from the ends of D and V.',
     },
     { kind: 'fields', rows },
   ];
 }
 
+function trackBlocks(r: CaseAnalysis, system: UnitSystem): Block[] {
+  const t = r.track;
+  if (!t) return [{ kind: 'para', text: r.trackMissing ?? 'No ground track.' }];
+  const rows: [string, string][] = [
+    ['Object ground speed', formatEstimate(t.speed, 'speed', system)],
+    ['Heading', `${formatEstimate(t.heading, 'angle', system)} from the observer’s direction of travel, positive to the right`],
+    ['Closest approach', `${formatEstimate(t.closestApproach, 'distance', system)} horizontally`],
+  ];
+  if (t.residualRms !== null) rows.push(['Scatter about a straight track', `${formatEstimate(t.residualRms, 'distance', system)} RMS`]);
+  return [
+    { kind: 'para', text: 'Each timestamp places the object by its bearing (the span’s midpoint) and range; a straight, steady track is fitted through the places.' },
+    { kind: 'fields', rows },
+  ];
+}
+
 function verdictBlocks(r: CaseAnalysis, system: UnitSystem): Block[] {
-  const v = r.verdict;
-  if (!v) return [{ kind: 'para', text: r.verdictMissing ?? 'No verdict.' }];
-  const judged = r.timestamps.find((x) => x.result.impliedSpeed);
+  if (r.verdicts.length === 0) return [{ kind: 'para', text: r.verdictMissing ?? 'No verdict.' }];
   const kindLabel = r.assumptions.objectKind === 'unknown' ? 'an object of unknown kind' : `a ${CLASS_ENVELOPES[r.assumptions.objectKind].label}`;
-  const rows: [string, string][] = [['Finding', VERDICT_SENTENCES[v.level]]];
-  if (judged) {
-    rows.push([
-      'Judged on',
-      `the implied ground speed at ${formatStamp(judged.t)}, ${formatEstimate(magnitude(judged.result.impliedSpeed!), 'speed', system)}, as ${kindLabel}; no wind, altitude or flight phase given`,
-    ]);
+  const blocks: Block[] = [];
+  if (r.verdicts.length > 1) {
+    blocks.push({ kind: 'para', text: `The direction of travel is not settled, so there is one verdict for each reading (${r.verdicts.length}).` });
   }
-  rows.push(['Rule', `${v.rule.text} (rule ${v.rule.id})`]);
-  rows.push(['Source', v.rule.source]);
+  for (const j of r.verdicts) blocks.push(...oneVerdict(j, r, kindLabel, system));
+  blocks.push({ kind: 'para', text: 'The verdict is about the figures this picture gives under the assumptions above, not about anyone.' });
+  return blocks;
+}
+
+function oneVerdict(j: JudgedReading, r: CaseAnalysis, kindLabel: string, system: UnitSystem): Block[] {
+  const v = j.verdict;
+  const wind = r.assumptions.headwind
+    ? `with the wind assumed, an airspeed of ${formatEstimate(j.airspeed, 'speed', system)}`
+    : 'no wind given';
+  const rows: [string, string][] = [
+    ['Finding', VERDICT_SENTENCES[v.level]],
+    ['Judged on', `${readingText(j.reading)}, ${formatEstimate(j.reading.speed, 'speed', system)}, as ${kindLabel}; ${wind}; no altitude or flight phase given`],
+    ['Rule', `${v.rule.text} (rule ${v.rule.id})`],
+    ['Source', v.rule.source],
+  ];
   if (v.hover) {
     rows.push([
       'Hovering',
@@ -431,7 +491,6 @@ function verdictBlocks(r: CaseAnalysis, system: UnitSystem): Block[] {
   }
   const blocks: Block[] = [{ kind: 'fields', rows }];
   if (v.notes.length > 0) blocks.push({ kind: 'list', items: [...v.notes] });
-  blocks.push({ kind: 'para', text: 'The verdict is about the figures this picture gives under the assumptions above, not about anyone.' });
   return blocks;
 }
 
@@ -440,6 +499,7 @@ function methodSection(r: CaseAnalysis): Section {
     [...new Set(xs.map((x) => `${x.draws} draws, seed ${x.seed}`))].join('; ');
   const frameRuns = r.timestamps.length > 0 ? runs(r.timestamps.map((ts) => ts.result)) : 'none run (nothing solved)';
   const seriesRuns = r.series ? runs([r.series]) : 'none run (no fit)';
+  const trackRuns = r.track ? runs([r.track]) : 'none run (no ground track)';
   return {
     title: 'Method',
     blocks: [
@@ -451,7 +511,8 @@ function methodSection(r: CaseAnalysis): Section {
           'Sight-line fixed point by the intercept theorem (Euclid, Elements VI.2): the landmark the object seems pinned over lies d / R of the way along the sight line.',
           'Implied speed from a landmark on the same sight line: w = u (1 - R/d), u the observer’s speed, d the landmark’s range.',
           'Weighted least-squares range-over-time fit, R(t)^2 = D^2 + V^2 (t - t0)^2, with a parametric bootstrap.',
-          `Seeded Monte Carlo, median and 5-95 % interval: single-frame figures ${frameRuns}; range-over-time fit ${seriesRuns}.`,
+          'Fixed-camera ground track: each place is the camera’s place plus the horizontal range along the aim plus the bearing; a least-squares straight line through the places gives speed and heading.',
+          `Seeded Monte Carlo, median and 5-95 % interval: single-frame figures ${frameRuns}; range-over-time fit ${seriesRuns}; ground track ${trackRuns}.`,
         ],
       },
     ],

@@ -54,7 +54,9 @@ describe('analyseCase on the fixture clips', () => {
       expect(s.regime).toBe('between'); // opposite directions: the fixed point lies between road and track
     }
     // 70 m/s is 136 kt: inside the approach-speed categories for a transport jet
-    expect(r.verdict?.level).toBe('ordinary');
+    expect(r.verdicts).toHaveLength(1);
+    expect(r.verdicts[0]!.reading.basis).toBe('landmark');
+    expect(r.verdicts[0]!.verdict.level).toBe('ordinary');
     // the fit over the five timestamps covers the scene's pass: relative speed 70 + 25 = 95 m/s,
     // closest approach sqrt(1000^2 + 78.5^2) (track distance; altitude less camera height), abeam at 1.6 s
     expect(r.series, r.seriesMissing ?? '').not.toBeNull();
@@ -80,7 +82,50 @@ describe('analyseCase on the fixture clips', () => {
     // scene's truth (DESIGN.md), inside the reported interval
     expect(r.window!.halfAngle).toBeCloseTo((35 * Math.PI) / 180, 9);
     expect(inside((2 * Dp * Math.tan((35 * Math.PI) / 180)) / 87, r.window!.estimate)).toBe(true);
-    expect(r.verdictMissing).toMatch(/landmark/);
+    // no landmark and the direction not given: a verdict for every reading the fit allows
+    expect(r.verdicts.map((j) => j.reading.basis)).toEqual(r.readings.map((x) => x.basis));
+    expect(r.verdicts.length).toBeGreaterThanOrEqual(2);
+    expect(r.verdicts.every((j) => j.reading.basis.startsWith('fit-'))).toBe(true);
+    // told the object moves against the observer, only that reading is judged
+    const opposite = analyseCase(caseOf(truth, { ...a, direction: 'opposite' }, null), { draws: 2000, seriesDraws: 1000 });
+    expect(opposite.verdicts.map((j) => j.reading.basis)).toEqual(['fit-opposite']);
+    expect(inside(65, opposite.verdicts[0]!.reading.speed)).toBe(true);
+    // and the same way: the two same-way readings, never the opposite one
+    const same = analyseCase(caseOf(truth, { ...a, direction: 'same' }, null), { draws: 2000, seriesDraws: 1000 });
+    expect(same.readings.some((x) => x.basis === 'fit-opposite')).toBe(false);
+  });
+
+  it('drift-fixed: the windscreen mount’s ground track holds the scene’s true speed and heading', () => {
+    // the truth file: a mount 35 deg left of ahead on a car at 22 m/s; the object flies the
+    // opposite way at 65 m/s (heading 180 deg from the car's travel)
+    const truth = load('drift-fixed');
+    const a: CaseAssumptions = {
+      ...defaultAssumptions(),
+      cameraLabel: 'known camera',
+      hfovDeg: { lo: 69, hi: 71 },
+      objectSizeM: { lo: 32, hi: 36 },
+      observerSpeedMs: { lo: 21, hi: 23 },
+      fixedCamera: { mount: 'vehicle', axisHeadingDeg: { lo: -36, hi: -34 } },
+    };
+    const r = analyseCase(caseOf(truth, a, null), { draws: 2000, seriesDraws: 500, trackDraws: 1000 });
+    expect(r.track, r.trackMissing ?? '').not.toBeNull();
+    expect(inside(65, r.track!.speed)).toBe(true);
+    const deg = (e: { p05: number; median: number; p95: number }) => ({ p05: (e.p05 * 180) / Math.PI, median: (e.median * 180) / Math.PI, p95: (e.p95 * 180) / Math.PI });
+    const h = deg(r.track!.heading);
+    expect(inside(180, h) || inside(-180, h)).toBe(true);
+    // the ground track settles the direction: judged once, on it
+    expect(r.readings[0]!.basis).toBe('track');
+    expect(r.verdicts.map((j) => j.reading.basis)).toEqual(['track']);
+  });
+
+  it('a headwind band widens the judged airspeed by its ends', () => {
+    const truth = load('drift-fixed');
+    const a: CaseAssumptions = { ...defaultAssumptions(), observerSpeedMs: { lo: 21, hi: 23 }, direction: 'opposite', headwindMs: { lo: 5, hi: 10 } };
+    const r = analyseCase(caseOf(truth, a, null), { draws: 1000, seriesDraws: 500 });
+    const j = r.verdicts[0]!;
+    expect(j.airspeed.p05).toBeCloseTo(j.reading.speed.p05 + 5, 9);
+    expect(j.airspeed.median).toBeCloseTo(j.reading.speed.median + 7.5, 9);
+    expect(j.airspeed.p95).toBeCloseTo(j.reading.speed.p95 + 10, 9);
   });
 
   it('says what is missing instead of inventing figures', () => {
@@ -88,6 +133,7 @@ describe('analyseCase on the fixture clips', () => {
     const r = analyseCase(caseOf({ ...truth, frames: truth.frames.slice(0, 1) }, defaultAssumptions(), null), { draws: 1000 });
     expect(r.timestamps).toHaveLength(1);
     expect(r.seriesMissing).toMatch(/3 or more timestamps \(1 so far\)/);
+    expect(r.trackMissing).toMatch(/kept its aim/);
     expect(r.verdictMissing).toMatch(/observer’s speed/);
   });
 });

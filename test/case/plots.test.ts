@@ -80,7 +80,40 @@ describe('plan view model', () => {
     expect(p.description).toContain('no point on the ground stays still');
   });
 
-  it('needs the fit and the observer speed', () => {
+  it('draws the 5-95 % band of the track’s distance from the fit', () => {
+    const p = planView(a)!;
+    expect(p.mode).toBe('pass');
+    expect(p.trackBand).toEqual({ lo: a.series!.closestApproach.p05, hi: a.series!.closestApproach.p95 });
+    expect(p.bounds.yMax).toBeGreaterThan(p.trackBand.hi);
+  });
+
+  it('one frame with a pinned landmark: one sight line drawn abeam, the landmark as the motionless point', () => {
+    const single = {
+      ...a,
+      series: null,
+      timestamps: [
+        {
+          t: 1.5,
+          result: {
+            range: { p05: 900, median: 1000, p95: 1100 },
+            landmarkRange: { p05: 240, median: 263, p95: 290 },
+            // w = u (1 - R/d) with u = 25, R = 1000, d = 263 (DESIGN.md): -70 m/s, against the observer
+            impliedSpeed: { p05: -80, median: -70, p95: -60 },
+          },
+        },
+      ],
+    } as unknown as CaseAnalysis;
+    const p = planView(single)!;
+    expect(p.mode).toBe('single');
+    expect(p.direction).toBe('opposite');
+    expect(p.sightLines).toHaveLength(1);
+    expect(p.sightLines[0]!.object).toEqual({ x: 0, y: 1000 });
+    expect(p.fixedPoint).toEqual({ x: 0, y: 263, fromRoad: 263 });
+    expect(p.trackBand).toEqual({ lo: 900, hi: 1100 });
+    expect(p.description).toContain('drawn abeam');
+  });
+
+  it('needs the fit or a pinned landmark, and the observer speed', () => {
     expect(planView({ ...a, series: null } as unknown as CaseAnalysis)).toBeNull();
     expect(planView({ ...a, assumptions: { observerSpeed: null } } as unknown as CaseAnalysis)).toBeNull();
   });

@@ -212,6 +212,67 @@ describe('the popup view of a measured case', () => {
     await page.close();
   });
 
+  it('chosen assumptions: camera class, size class, direction, wind and a fixed camera’s ground track', async () => {
+    const drift = JSON.parse(readFileSync('test/fixtures/clips/drift-fixed.truth.json', 'utf8'));
+    await setUnits('metric');
+    const { page, box } = await overlaid('/drift.html?chosen');
+    for (const [i, f] of drift.frames.entries()) {
+      await seek(page, f.t);
+      await page.locator('clip-caliper-overlay .surface').focus();
+      await page.keyboard.press('1');
+      await drag(page, box, f.object);
+      await overlayReady(page, i + 1);
+    }
+    const view = await popupFor(page);
+    await expect.poll(() => view.getByTestId('series').count()).toBe(1);
+
+    // a camera class sets the field of view from its derivation; a size class the size band
+    await view.getByTestId('field-camera').selectOption('phone-main-landscape');
+    await expect.poll(() => view.getByTestId('labels').textContent()).toContain('Phone main camera, landscape video, no stabilisation crop');
+    await view.getByTestId('field-size-class').selectOption('letter-D');
+    // code letter D wingspan: 36 m to less than 52 m (ICAO Annex 14 Vol I Table 1-1)
+    await expect.poll(() => view.getByTestId('field-objectSizeM').inputValue()).toBe('36 to 52 m');
+
+    // a field of view outside (0, 180) degrees is refused at the field, naming the allowed range
+    await view.getByTestId('field-hfovDeg').fill('200 deg');
+    await view.getByTestId('field-hfovDeg').press('Enter');
+    await expect.poll(() => view.getByRole('alert').first().textContent()).toContain('outside the allowed 0.01 to 179.9 deg');
+
+    // the scene's own camera: 70 degrees, the truth's size, 22 m/s on the road
+    await view.getByTestId('field-hfovDeg').fill('69 to 71');
+    await view.getByTestId('field-hfovDeg').press('Enter');
+    await view.getByTestId('field-objectSizeM').fill('32 to 36 m');
+    await view.getByTestId('field-objectSizeM').press('Enter');
+    await view.getByTestId('field-observerSpeedMs').fill('79.2 km/h ± 3.6');
+    await view.getByTestId('field-observerSpeedMs').press('Enter');
+    await expect.poll(() => view.getByTestId('field-observerSpeedMs').inputValue()).toBe('75.6 to 82.8 km/h');
+
+    // direction unknown: one reading per direction the fit allows; told "opposite", only that one
+    await expect.poll(() => view.getByTestId('fit-reading').count()).toBeGreaterThanOrEqual(2);
+    await view.getByTestId('field-direction').selectOption('opposite');
+    await expect.poll(() => view.getByTestId('fit-reading').count()).toBe(1);
+    expect(await view.getByTestId('fit-reading').textContent()).toContain('if opposite');
+
+    // wind: the verdict judges the airspeed
+    await view.getByTestId('field-headwindMs').fill('10 to 20 km/h');
+    await view.getByTestId('field-headwindMs').press('Enter');
+    await expect.poll(() => view.getByTestId('verdict').first().textContent()).toContain('with the wind, an airspeed of');
+
+    // a mount on the car, 35 degrees left of ahead (the truth file): the ground track holds 65 m/s
+    expect(await view.getByTestId('track-missing').textContent()).toContain('kept its aim');
+    await view.getByTestId('field-mount').selectOption('vehicle');
+    await view.getByTestId('field-axisHeadingDeg').fill('-36 to -34');
+    await view.getByTestId('field-axisHeadingDeg').press('Enter');
+    await expect.poll(() => view.getByTestId('track').count()).toBe(1);
+    const text = (await view.getByTestId('track').textContent())!;
+    const m = /Object ground speed (\d+) km\/h \((\d+)[–-](\d+) km\/h/.exec(text);
+    expect(m, text).not.toBeNull();
+    expect(Number(m![2])).toBeLessThan(65 * 3.6);
+    expect(Number(m![3])).toBeGreaterThan(65 * 3.6);
+    await view.close();
+    await page.close();
+  });
+
   it('measures the observer speed from lane-dash passes marked in the overlay, once the cycle is chosen', async () => {
     await setUnits('aviation');
     const { page, box } = await overlaid('/plain.html?lanes');

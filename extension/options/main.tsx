@@ -3,6 +3,7 @@ import { useEffect, useState } from 'preact/hooks';
 import { parseBand } from '../../src/case/bands';
 import type { Settings } from '../../src/case/settings';
 import { CAMERA_PROFILES } from '../../src/engine/profiles';
+import { message } from '../shared/browser';
 import { loadSettings, saveSettings } from '../shared/settings';
 
 /** Settings: how figures are shown and what new cases assume. Saved as soon as they change. */
@@ -20,7 +21,7 @@ function Options() {
   if (!s) return null;
   const save = (next: Settings) => {
     setS(next);
-    saveSettings(next).then(() => setStatus('Saved.'), (e: Error) => setStatus(`Not saved: ${e.message}`));
+    saveSettings(next).then(() => setStatus(message('optSaved')), (e: Error) => setStatus(message('optNotSaved', e.message)));
   };
   const commitSpeed = () => {
     if (speed.trim() === '') {
@@ -30,7 +31,7 @@ function Options() {
       return save(next);
     }
     try {
-      save({ ...s, observerSpeedMs: parseBand(speed, 'speed', 'Default observer speed', 'km/h') });
+      save({ ...s, observerSpeedMs: parseBand(speed, 'speed', message('optSpeedField'), 'km/h') });
       setSpeedError(null);
     } catch (e) {
       setSpeedError((e as Error).message);
@@ -38,18 +39,18 @@ function Options() {
   };
   return (
     <main>
-      <h1>Clip Caliper settings</h1>
+      <h1>{message('optTitle')}</h1>
       <div class="assumptions">
         <div class="field">
-          <label for="system">Units for every figure</label>
+          <label for="system">{message('optSystemLabel')}</label>
           <select id="system" data-testid="system" value={s.system} onChange={(e) => save({ ...s, system: (e.target as HTMLSelectElement).value as Settings['system'] })}>
-            <option value="metric">Metric (m, km, km/h)</option>
-            <option value="imperial">Imperial (ft, mi, mph)</option>
-            <option value="aviation">Aviation (ft, NM, kt)</option>
+            <option value="metric">{message('optSystemMetric')}</option>
+            <option value="imperial">{message('optSystemImperial')}</option>
+            <option value="aviation">{message('optSystemAviation')}</option>
           </select>
         </div>
         <div class="field">
-          <label for="camera">Camera new cases assume</label>
+          <label for="camera">{message('optCameraLabel')}</label>
           <select id="camera" data-testid="camera" value={s.cameraProfile} onChange={(e) => save({ ...s, cameraProfile: (e.target as HTMLSelectElement).value })}>
             {CAMERA_PROFILES.map((p) => (
               <option value={p.id}>
@@ -59,12 +60,12 @@ function Options() {
           </select>
         </div>
         <div class="field">
-          <label for="speed">Observer speed new cases assume</label>
+          <label for="speed">{message('optSpeedLabel')}</label>
           <input
             id="speed"
             data-testid="speed"
             value={speed}
-            placeholder="e.g. 90 km/h ± 10, or leave empty"
+            placeholder={message('optSpeedHint')}
             aria-invalid={speedError ? 'true' : 'false'}
             onInput={(e) => setSpeed((e.target as HTMLInputElement).value)}
             onBlur={commitSpeed}
@@ -80,9 +81,11 @@ function Options() {
       <p class="muted" role="status">
         {status}
       </p>
-      <p class="muted">Everything stays in this browser’s local storage. Never operate the tool, or film, while driving.</p>
+      <p class="muted">{message('optPrivacy')}</p>
     </main>
   );
 }
 
+// the page's <title> is static HTML; the table's wording replaces it here
+document.title = message('optTitle');
 render(<Options />, document.getElementById('app')!);

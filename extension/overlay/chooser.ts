@@ -1,3 +1,4 @@
+import { message } from '../shared/browser';
 import { forceStyle, h } from './dom';
 import { OVERLAY_CSS } from './styles';
 
@@ -19,7 +20,8 @@ export class Chooser {
     const signal = this.ac.signal;
     const list = h('div', { class: 'row tools', role: 'list' });
     videos.forEach((v, i) => {
-      const label = `Video ${i + 1}: ${v.videoWidth || '?'}×${v.videoHeight || '?'}${Number.isFinite(v.duration) ? `, ${v.duration.toFixed(1)} s` : ''}`;
+      const [n, w, ht] = [String(i + 1), String(v.videoWidth || '?'), String(v.videoHeight || '?')];
+      const label = Number.isFinite(v.duration) ? message('ovlVideoTimed', [n, w, ht, v.duration.toFixed(1)]) : message('ovlVideo', [n, w, ht]);
       const b = h('button', { type: 'button', role: 'listitem', 'data-video-index': i }, label);
       const show = () => this.show(v);
       b.addEventListener('mouseenter', show, { signal });
@@ -30,15 +32,15 @@ export class Chooser {
       }, { signal });
       list.append(b);
     });
-    const close = h('button', { type: 'button', class: 'close' }, 'Close');
+    const close = h('button', { type: 'button', class: 'close' }, message('ovlClose'));
     close.addEventListener('click', () => this.destroy(), { signal });
     const heading = videos.length
-      ? 'Which video do you want to measure?'
-      : 'No video found on this page.';
+      ? message('ovlWhichVideo')
+      : message('ovlNoVideo');
     const foreign = foreignOrigins.length
-      ? h('div', { class: 'notice' }, `Videos inside frames from ${foreignOrigins.join(', ')} need permission for those sites: allow them from the Clip Caliper popup.`)
+      ? h('div', { class: 'notice' }, message('ovlForeignFrames', foreignOrigins.join(', ')))
       : '';
-    root.append(h('style', {}, OVERLAY_CSS), h('div', { class: 'panel', role: 'dialog', 'aria-label': 'Clip Caliper: choose a video', style: 'position: static' }, h('div', { 'data-testid': 'chooser-heading' }, heading), list, foreign, h('div', { class: 'row' }, close)));
+    root.append(h('style', {}, OVERLAY_CSS), h('div', { class: 'panel', role: 'dialog', 'aria-label': message('ovlChooserLabel'), style: 'position: static' }, h('div', { 'data-testid': 'chooser-heading' }, heading), list, foreign, h('div', { class: 'row' }, close)));
     this.el.addEventListener('keydown', (e) => {
       e.stopPropagation();
       if (e.key === 'Escape') this.destroy();

@@ -42,6 +42,12 @@ export function degrees(rad: number): string {
   return `${sig3((rad * 180) / Math.PI)}°`;
 }
 
+/** "2.87° (2.70–3.05°, 5–95 %)": an angle with its interval. */
+export function degreesEstimate(e: Estimate): string {
+  const d = (rad: number) => sig3((rad * 180) / Math.PI);
+  return `${d(e.median)}° (${d(e.p05)}–${d(e.p95)}°, 5–95 %)`;
+}
+
 export function speedEstimate(e: Estimate, system: UnitSystem = 'metric'): string {
   const [u, k] = SPEED_UNITS[system];
   return `${sig3(e.median / k)} ${u} (${sig3(e.p05 / k)}–${sig3(e.p95 / k)} ${u}, 5–95 %)`;

@@ -4,13 +4,13 @@ import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from 
 import { snapAlong } from '../../src/engine/snap';
 import { validateCase } from '../../src/case/validate';
 import { caseKey } from '../../src/case/schema';
-import { browser, send } from '../shared/browser';
+import { browser, message, send } from '../shared/browser';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
 import { cameraFrame, marksAt } from '../../src/case/frames';
 import { forceStyle, h, svg } from './dom';
-import { degrees, distanceEstimate, speedEstimate, timestamp } from './format';
+import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
@@ -28,11 +28,11 @@ interface ToolDef {
 
 /* Our own names for the marking tools; the keys 1-5 choose them. */
 const TOOLS: readonly ToolDef[] = [
-  { kind: 'object-span', label: 'Object ends', key: '1', hint: 'Drag from one end of the object to the other.' },
-  { kind: 'landmark-span', label: 'Landmark', key: '2', hint: 'Drag across the landmark the object seems pinned over.' },
-  { kind: 'frame-edges', label: 'Picture edges', key: '3', hint: 'Drag from the left edge of the recorded picture to its right edge (for bars or crops).' },
-  { kind: 'lane-dash', label: 'Lane dash', key: '4', hint: 'Click where a dash meets your reference each time one passes.' },
-  { kind: 'object-centre', label: 'Object centre', key: '5', hint: 'Click the centre of the object (clips from a fixed camera).' },
+  { kind: 'object-span', label: message('ovlToolObject'), key: '1', hint: message('ovlToolObjectHint') },
+  { kind: 'landmark-span', label: message('ovlToolLandmark'), key: '2', hint: message('ovlToolLandmarkHint') },
+  { kind: 'frame-edges', label: message('ovlToolEdges'), key: '3', hint: message('ovlToolEdgesHint') },
+  { kind: 'lane-dash', label: message('ovlToolLane'), key: '4', hint: message('ovlToolLaneHint') },
+  { kind: 'object-centre', label: message('ovlToolCentre'), key: '5', hint: message('ovlToolCentreHint') },
 ];
 
 const COLOURS: Record<MarkKind, string> = {
@@ -106,22 +106,27 @@ export class MeasureSession {
       class: 'surface',
       tabindex: 0,
       role: 'application',
-      'aria-label': 'Measuring surface. Keys 1 to 5 choose a tool; arrow keys move the cursor or the selected end (Shift 10 px, Alt 0.1 px); Enter places a point; Tab switches ends; S snaps; Delete removes; H hides the panel; Escape closes.',
+      'aria-label': message('ovlSurfaceLabel'),
     });
     this.surface.append(this.layer);
     this.magCanvas = h('canvas', { width: 32, height: 32 });
     this.magnifier = h('div', { class: 'magnifier', 'aria-hidden': 'true' }, this.magCanvas, h('div', { class: 'cross-h' }), h('div', { class: 'cross-v' }));
 
-    const tools = h('div', { class: 'row tools', role: 'toolbar', 'aria-label': 'Marking tools' });
+    const tools = h('div', { class: 'row tools', role: 'toolbar', 'aria-label': message('ovlToolsLabel') });
     for (const t of TOOLS) {
-      const b = h('button', { type: 'button', 'aria-pressed': t.kind === this.tool ? 'true' : 'false', title: `${t.hint} (key ${t.key})`, 'data-kind': t.kind }, `${t.key} ${t.label}`);
+      const b = h('button', { type: 'button', 'aria-pressed': t.kind === this.tool ? 'true' : 'false', title: message('ovlToolTitle', [t.hint, t.key]), 'data-kind': t.kind }, `${t.key} ${t.label}`);
       b.addEventListener('click', () => this.chooseTool(t.kind), { signal: this.host.signal });
       this.toolButtons.set(t.kind, b);
       tools.append(b);
     }
-    const dim = h('select', { 'aria-label': 'Dimension marked' }, h('option', { value: 'wingspan' }, 'wingspan'), h('option', { value: 'length' }, 'length'));
+    const dim = h(
+      'select',
+      { 'aria-label': message('ovlDimensionLabel') },
+      h('option', { value: 'wingspan' }, message('ovlDimensionWingspan')),
+      h('option', { value: 'length' }, message('ovlDimensionLength')),
+    );
     dim.addEventListener('change', () => (this.dimension = dim.value as Mark['dimension']), { signal: this.host.signal });
-    const close = h('button', { type: 'button', class: 'close', title: 'Close the overlay (Escape)' }, 'Close');
+    const close = h('button', { type: 'button', class: 'close', title: message('ovlCloseTitle') }, message('ovlClose'));
     close.addEventListener('click', () => void this.close(), { signal: this.host.signal });
     tools.append(dim, close);
 
@@ -130,11 +135,11 @@ export class MeasureSession {
     this.live = h('div', { class: 'sr', 'aria-live': 'polite', 'data-testid': 'live' });
     this.panel = h(
       'div',
-      { class: 'panel', role: 'dialog', 'aria-label': 'Clip Caliper measuring overlay' },
+      { class: 'panel', role: 'dialog', 'aria-label': message('ovlPanelLabel') },
       tools,
       this.readoutEl,
       this.noticeEl,
-      h('div', { class: 'caution' }, 'Estimates from a picture, not evidence. Never use this or film while driving.'),
+      h('div', { class: 'caution' }, message('ovlCaution')),
       this.live,
     );
     root.append(this.surface, this.magnifier, this.panel);
@@ -242,7 +247,7 @@ export class MeasureSession {
   private async openCase(): Promise<void> {
     const v = this.video;
     if (v.videoWidth === 0) {
-      this.notice('Waiting for the video to load its first frame…');
+      this.notice(message('ovlWaiting'));
       return;
     }
     this.src = v.currentSrc;
@@ -252,9 +257,15 @@ export class MeasureSession {
       this.describeVideo();
       this.redraw();
       const n = this.record!.marks.length;
-      this.say(`Overlay ready. ${n} saved mark${n === 1 ? '' : 's'} for this video.`);
+      this.say(message(n === 1 ? 'ovlReadyOne' : 'ovlReadyMany', String(n)));
+      // the case log opened this page at a mark: go to it once (taking the request clears it)
+      const seek = await send('seek/take', { pageUrl: this.videoInfo().pageUrl }).catch(() => ({ t: null }));
+      if (seek.t !== null && Number.isFinite(seek.t) && seek.t >= 0) {
+        v.pause();
+        v.currentTime = Number.isFinite(v.duration) ? Math.min(seek.t, v.duration) : seek.t;
+      }
     } catch (err) {
-      this.notice(`Could not open this video's case: ${(err as Error).message}`);
+      this.notice(message('ovlOpenFailed', (err as Error).message));
     }
   }
 
@@ -275,16 +286,16 @@ export class MeasureSession {
     this.record = null;
     this.draft = null;
     this.selected = null;
-    this.say('The video changed: its marks are kept under a case of its own.');
+    this.say(message('ovlVideoChanged'));
     void this.openCase();
   }
 
   private describeVideo(): void {
     const v = this.video;
     const notes: string[] = [];
-    if (!Number.isFinite(v.duration)) notes.push('Live stream: marks keep the playback time.');
-    if (v.mediaKeys) notes.push('Encrypted video: its pixels are hidden, so snapping and the magnifier are off; marking still works.');
-    if (!this.pixels.direct) notes.push('This video’s pixels cannot be read directly (it comes from another site): snapping uses a capture of the screen, at the screen’s resolution.');
+    if (!Number.isFinite(v.duration)) notes.push(message('ovlLiveStream'));
+    if (v.mediaKeys) notes.push(message('ovlEncrypted'));
+    if (!this.pixels.direct) notes.push(message('ovlCrossOrigin'));
     this.notice(notes.join(' '));
   }
 
@@ -403,7 +414,7 @@ export class MeasureSession {
     if (!a || !b || Math.hypot(b.x - a.x, b.y - a.y) < 1) {
       // a click, not a drag: the next click or Enter places the second end
       this.draft.points = [a ?? p!];
-      this.say('First end placed. Click or press Enter at the second end.');
+      this.say(message('ovlFirstEndPointer'));
       return;
     }
     void this.commitDraft();
@@ -465,7 +476,7 @@ export class MeasureSession {
         e.preventDefault();
         if (this.draft) {
           this.draft = null;
-          this.say('Mark cancelled.');
+          this.say(message('ovlCancelled'));
           this.redraw();
         } else if (this.selected) {
           this.selected = null;
@@ -508,7 +519,7 @@ export class MeasureSession {
   private togglePanel(): void {
     const hidden = this.panel.hidden;
     this.panel.hidden = !hidden;
-    this.say(hidden ? 'Panel shown.' : 'Panel hidden. Press H to show it again.');
+    this.say(message(hidden ? 'ovlPanelShown' : 'ovlPanelHidden'));
   }
 
   private chooseTool(kind: MarkKind): void {
@@ -527,7 +538,7 @@ export class MeasureSession {
     const p = { ...this.cursor };
     if (!this.draft) {
       this.startDraft(p);
-      if (this.draft) this.say('First end placed. Move with the arrow keys, then press Enter at the second end.');
+      if (this.draft) this.say(message('ovlFirstEndKeys'));
     } else {
       this.draft.points[1] = p;
       void this.commitDraft();
@@ -541,7 +552,7 @@ export class MeasureSession {
       const points = m.points.map((p, i) => (i === this.selected!.end ? { x: p.x + dx, y: p.y + dy } : p));
       this.replaceMark({ ...m, points }, true);
       const p = points[this.selected.end]!;
-      this.say(`End ${this.selected.end + 1} at ${p.x.toFixed(1)}, ${p.y.toFixed(1)} px.`);
+      this.say(message('ovlEndAt', [String(this.selected.end + 1), p.x.toFixed(1), p.y.toFixed(1)]));
       return;
     }
     const v = this.video;
@@ -557,7 +568,7 @@ export class MeasureSession {
     if (ends.length === 0) return;
     const i = ends.findIndex((x) => x.markId === this.selected?.markId && x.end === this.selected?.end);
     this.selected = ends[(i + dir + ends.length) % ends.length]!;
-    this.say(`Selected end ${this.selected.end + 1} of a ${this.selectedMark()?.kind.replace('-', ' ')} mark.`);
+    this.say(message('ovlSelectedEnd', [String(this.selected.end + 1), String(this.selectedMark()?.kind.replace('-', ' '))]));
     this.redraw();
   }
 
@@ -616,7 +627,7 @@ export class MeasureSession {
     if (!m || m.points.length !== 2 || !this.selected) return;
     const img = await this.pixels.get().catch(() => null);
     if (!img) {
-      this.say('Snapping is off for this video.');
+      this.say(message('ovlSnapOff'));
       return;
     }
     const [a, b] = m.points as [Point, Point];
@@ -624,14 +635,14 @@ export class MeasureSession {
     const p = m.points[this.selected!.end]!;
     const s = snapAlong(img, p.x, p.y, (b.x - a.x) / len, (b.y - a.y) / len, 6);
     if (!s) {
-      this.say('No clear edge under this end.');
+      this.say(message('ovlNoEdge'));
       return;
     }
     const sel = this.selected;
     if (!sel) return;
     const points = m.points.map((q, i) => (i === sel.end ? { x: s.x, y: s.y } : q));
     await this.replaceMark({ ...m, points, edgeSigmaPx: Math.max(m.edgeSigmaPx, s.sigmaPx) }, false);
-    this.say(`Snapped to the edge, uncertainty ${s.sigmaPx.toFixed(2)} px.`);
+    this.say(message('ovlSnapped', s.sigmaPx.toFixed(2)));
   }
 
   private async removeSelected(): Promise<void> {
@@ -640,9 +651,9 @@ export class MeasureSession {
     this.selected = null;
     try {
       this.adopt(await send('mark/remove', { caseId: this.caseId, markId: m.id }));
-      this.say('Mark removed.');
+      this.say(message('ovlRemoved'));
     } catch (err) {
-      this.notice(`Could not remove the mark: ${(err as Error).message}`);
+      this.notice(message('ovlRemoveFailed', (err as Error).message));
     }
     this.redraw();
   }
@@ -678,7 +689,7 @@ export class MeasureSession {
       this.adopt(await send('mark/put', { caseId: this.caseId, mark }));
       this.announceFigures(mark);
     } catch (err) {
-      this.notice(`Not saved: ${(err as Error).message}`);
+      this.notice(message('ovlNotSaved', (err as Error).message));
     }
     this.redraw();
   }
@@ -741,25 +752,26 @@ export class MeasureSession {
     const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: DEFAULT_EDGE_SIGMA_PX } : here.find((x) => x.kind === 'object-span');
     const lm = here.find((x) => x.kind === 'landmark-span') ?? null;
     const t = this.video.currentTime;
-    const head = h('div', { class: 'muted' }, `Frame ${timestamp(t)} · ${this.record?.marks.length ?? 0} marks saved`);
+    const head = h('div', { class: 'muted' }, message((this.record?.marks.length ?? 0) === 1 ? 'ovlFrameHeadOne' : 'ovlFrameHead', [timestamp(t), String(this.record?.marks.length ?? 0)]));
     if (!obj) {
       this.readoutEl.replaceChildren(head, h('div', {}, TOOLS.find((x) => x.kind === this.tool)!.hint));
       return;
     }
     const f = liveFigures(obj, lm, frame, a);
     if (!f) {
-      this.readoutEl.replaceChildren(head, h('div', {}, 'The object’s ends lie outside the camera picture: check the picture edges.'));
+      this.readoutEl.replaceChildren(head, h('div', {}, message('ovlOutsidePicture')));
       return;
     }
     const lines: (HTMLElement | string)[] = [
       head,
-      h('div', { class: 'big', 'data-testid': 'range' }, `Range ${distanceEstimate(f.result.range, this.system)}`),
-      h('div', {}, `Span ${f.spanPx.toFixed(1)} px · angular size ${degrees(f.result.angularSize.median)}`),
+      h('div', { class: 'big', 'data-testid': 'range' }, message('ovlRange', distanceEstimate(f.result.range, this.system))),
+      h('div', {}, message('ovlSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize)])),
     ];
-    if (f.result.landmarkRange) lines.push(h('div', {}, `Landmark range ${distanceEstimate(f.result.landmarkRange, this.system)}`));
-    if (f.result.impliedSpeed) lines.push(h('div', {}, `Implied object speed ${speedEstimate(f.result.impliedSpeed, this.system)}`));
-    const aspect = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9 ? 'broadside' : 'at the aspect given';
-    lines.push(h('div', { class: 'muted' }, `Assuming ${a.sizeLabel}, ${aspect}; ${a.cameraLabel.toLowerCase()}.`));
+    if (f.result.landmarkRange) lines.push(h('div', {}, message('ovlLandmarkRange', distanceEstimate(f.result.landmarkRange, this.system))));
+    if (f.result.impliedSpeed) lines.push(h('div', {}, message('ovlImpliedSpeed', speedEstimate(f.result.impliedSpeed, this.system))));
+    const broadside = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9;
+    // the labels are stored in the case (data); only the sentence around them is ours
+    lines.push(h('div', { class: 'muted' }, message(broadside ? 'ovlAssumingBroadside' : 'ovlAssumingAspect', [a.sizeLabel, a.cameraLabel.toLowerCase()])));
     this.readoutEl.replaceChildren(...lines);
   }
 
@@ -767,8 +779,8 @@ export class MeasureSession {
     if (mark.kind !== 'object-span' || !this.record) return;
     const frame = cameraFrame(this.record.marks, this.video.videoWidth, this.video.videoHeight);
     const f = liveFigures(mark, null, frame, this.assumptions);
-    if (f) this.say(`Object span ${f.spanPx.toFixed(1)} px, angular size ${degrees(f.result.angularSize.median)}, range ${distanceEstimate(f.result.range, this.system)}. Saved.`);
-    else this.say('Saved.');
+    if (f) this.say(message('ovlSavedSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize), distanceEstimate(f.result.range, this.system)]));
+    else this.say(message('ovlSaved'));
   }
 
   private say(text: string): void {

@@ -91,7 +91,7 @@ async function unattended(browserPath: string): Promise<number> {
     await page.bringToFront();
     await ask('overlay/inject', { tabId });
     const readout = page.locator('clip-caliper-overlay [data-testid=readout]');
-    await readout.filter({ hasText: 'marks saved' }).waitFor();
+    await readout.filter({ hasText: /\d+ marks? saved/ }).waitFor();
     console.log('Called the overlay up.');
 
     const box = (await page.locator('video').boundingBox())!;

@@ -256,7 +256,7 @@ async function printPointerMoves(app: Loaded, server: TestServer): Promise<void>
   const readout = page.locator('clip-caliper-overlay [data-testid=readout]');
   await page.waitForFunction(() => {
     const r = document.querySelector('clip-caliper-overlay')?.shadowRoot?.querySelector('[data-testid=readout]');
-    return !!r?.textContent?.includes('marks saved');
+    return !!r?.textContent?.match(/\d+ marks? saved/);
   });
   await page.locator('clip-caliper-overlay .surface').focus();
   await page.keyboard.press('1');
@@ -285,9 +285,9 @@ async function printPointerMoves(app: Loaded, server: TestServer): Promise<void>
   await page.mouse.up();
   await page.waitForFunction(() => {
     const r = document.querySelector('clip-caliper-overlay')?.shadowRoot?.querySelector('[data-testid=readout]');
-    return !!r?.textContent?.includes('1 marks saved');
+    return !!r?.textContent?.includes('1 mark saved');
   }, null, { timeout: 10_000 }).catch(() => undefined);
-  const saved = ((await readout.textContent()) ?? '').includes('1 marks saved');
+  const saved = ((await readout.textContent()) ?? '').includes('1 mark saved');
   const longTasks = await page.evaluate(() => {
     const w = window as unknown as LongTaskWindow;
     for (const e of w.__benchLongTaskObserver?.takeRecords() ?? []) w.__benchLongTasks.push(e.duration);

@@ -149,5 +149,5 @@ export async function overlayReady(frame: PageOrFrame, marks?: number): Promise<
   const { expect } = await import('vitest');
   await expect
     .poll(() => frame.locator('clip-caliper-overlay [data-testid=readout]').textContent(), { timeout: 10_000 })
-    .toContain(marks === undefined ? 'marks saved' : `${marks} marks saved`);
+    .toMatch(marks === undefined ? /\d+ marks? saved/ : new RegExp(`\\b${marks} ${marks === 1 ? 'mark' : 'marks'} saved`));
 }

@@ -171,6 +171,29 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
+  it('still allows marking an encrypted video, with a notice, and leaves its pixels alone', async () => {
+    const page = await open('/encrypted.html');
+    await videoReady(page);
+    expect(await page.evaluate('window.keysAttached')).toBe(true);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('Encrypted video');
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await page.mouse.move(box.x + 200, box.y + 150);
+    await page.mouse.down();
+    await page.mouse.move(box.x + 260, box.y + 152, { steps: 4 });
+    await page.mouse.up();
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
+    // no snapping and no magnifier on a picture the page keeps from scripts
+    const m = (await caseFor(page.url())).marks[0]!;
+    expect(m.points[0]!.x).toBeCloseTo(200, 0);
+    expect(m.points[1]!.x).toBeCloseTo(260, 0);
+    expect(await page.locator('clip-caliper-overlay .magnifier').evaluate((el) => getComputedStyle(el).display)).toBe('none');
+    await page.close();
+  });
+
   it('closes on Escape and leaves nothing behind', async () => {
     const page = await open('/plain.html');
     await videoReady(page);
@@ -460,7 +483,7 @@ describe('marking the fixture clip', () => {
     const after = (await sendAsPopup(app, 'status/get', {})) as { startedAt: number };
     expect(after.startedAt).toBeGreaterThan(before.startedAt); // a fresh worker answered
     await injectOverlay(app, page.url()); // wakes a fresh worker
-    await expect.poll(() => readout(page).textContent()).toContain('1 marks saved');
+    await expect.poll(() => readout(page).textContent()).toContain('1 mark saved');
     expect((await caseFor(page.url())).marks).toHaveLength(1);
     await page.close();
   });

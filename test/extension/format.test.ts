@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { distanceEstimate, speedEstimate } from '../../extension/overlay/format';
+import { degreesEstimate, distanceEstimate, speedEstimate } from '../../extension/overlay/format';
 
 // Exact factors from NIST SP 811 (2008) App. B.8: 1 NM = 1852 m, 1 ft = 0.3048 m,
 // 1 mi = 1609.344 m, 1 kn = 1852/3600 m/s, 1 mph = 0.44704 m/s; km/h from the SI Brochure.
@@ -22,5 +22,9 @@ describe('overlay readout units (no mathjs in the overlay)', () => {
     [25, 'imperial', '55.9 mph (44.7–67.1 mph, 5–95 %)'],
   ] as const)('%d m/s in %s: %s', (ms, system, text) => {
     expect(speedEstimate(e(ms), system)).toBe(text);
+  });
+
+  it('an angle with its interval, in degrees (pi rad = 180 degrees exactly, SI Brochure Table 8)', () => {
+    expect(degreesEstimate({ p05: Math.PI / 90, median: Math.PI / 60, p95: Math.PI / 45 })).toBe('3.00° (2.00–4.00°, 5–95 %)');
   });
 });

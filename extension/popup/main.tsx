@@ -3,6 +3,7 @@ import { useEffect, useState } from 'preact/hooks';
 import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
 import { CaseView } from './case-view';
+import { LogView, isLogRoute } from './log-view';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
 import type { Settings } from '../../src/case/settings';
 
@@ -149,6 +150,12 @@ function Popup() {
       <MeasureButton />
       <ForeignFrames />
       <Cases />
+      <p>
+        {/* the log needs room: it opens in a tab of its own, the same page with ?view=log */}
+        <a href="?view=log" data-testid="open-log" onClick={(e) => { e.preventDefault(); void browser.tabs.create({ url: new URL('?view=log', location.href).href }); }}>
+          {t('popupOpenLog')}
+        </a>
+      </p>
       <p class="muted">
         <a href="#" onClick={(e) => { e.preventDefault(); void browser.runtime.openOptionsPage(); }}>
           Settings: units, default camera and observer speed
@@ -161,4 +168,4 @@ function Popup() {
   );
 }
 
-render(<Popup />, document.getElementById('app')!);
+render(isLogRoute() ? <LogView /> : <Popup />, document.getElementById('app')!);

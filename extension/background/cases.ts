@@ -25,6 +25,7 @@ import {
 } from '../../src/case/store-policy';
 import { CaseFormatError, normaliseTags, validateAssumptions, validateCase, validateMark, validateNotes, validateStatus } from '../../src/case/validate';
 import { browser } from '../shared/browser';
+import { applyChange, currentGeneration, drop as dropIndex, indexed, rebuild as rebuildIndex } from './listing-index';
 
 /*
  * The case store: one storage key per case, so that two tabs working on different cases never
@@ -79,7 +80,21 @@ async function setLocal(what: string, items: Record<string, unknown>): Promise<v
   const current = await browser.storage.local.get(Object.keys(items));
   checkFits(what, addedBytes(items, current), await bytesInUse(), quotaBytes());
   await browser.storage.local.set(items);
+  // the log's index learns of this write now, not only when storage.onChanged reaches this worker
+  for (const [k, v] of Object.entries(items)) applyChange(k, v);
 }
+
+/** Removes keys from local storage, and from the log's index at once. */
+async function removeLocal(keys: string | string[]): Promise<void> {
+  await browser.storage.local.remove(keys);
+  for (const k of Array.isArray(keys) ? keys : [keys]) applyChange(k, undefined);
+}
+
+// every other writer (a page, another view, an import in another worker instance) reaches the index here
+browser.storage.onChanged.addListener((changes: Record<string, { newValue?: unknown }>, area: string) => {
+  if (area !== 'local') return;
+  for (const [k, change] of Object.entries(changes)) applyChange(k, change.newValue);
+});
 
 /* ---------- reading, with quarantine ---------- */
 
@@ -93,7 +108,7 @@ async function quarantine(key: string, raw: unknown, err: unknown): Promise<Quar
   if ((await browser.storage.local.get(qKey))[qKey] !== undefined) qKey = `${qKey}~${Date.now()}`;
   const record = quarantineRecord(key, raw, err, Date.now());
   await setLocal(`setting aside the unreadable record ${key}`, { [qKey]: record });
-  await browser.storage.local.remove(key);
+  await removeLocal(key);
   return quarantineEntry(qKey, record);
 }
 
@@ -205,6 +220,13 @@ export async function casesForPage(pageUrl: string): Promise<{ cases: CaseRecord
 /* ---------- the case log ---------- */
 
 export async function listCases(): Promise<{ cases: CaseListing[]; quarantined: QuarantineEntry[]; usage: StorageUsage }> {
+  const known = indexed();
+  if (known) {
+    known.cases.sort((a, b) => b.updatedAt - a.updatedAt);
+    known.quarantined.sort((a, b) => b.quarantinedAt - a.quarantinedAt);
+    return { ...known, usage: await storageUsage() };
+  }
+  const since = currentGeneration();
   let all = await browser.storage.local.get(null);
   const cases: CaseListing[] = [];
   const stuck: QuarantineEntry[] = [];
@@ -232,7 +254,10 @@ export async function listCases(): Promise<{ cases: CaseListing[]; quarantined: 
     .concat(stuck);
   cases.sort((a, b) => b.updatedAt - a.updatedAt);
   quarantined.sort((a, b) => b.quarantinedAt - a.quarantinedAt);
-  return { cases, quarantined, usage: await storageUsage() };
+  // a record that could not be moved aside stays unindexed: every listing reads it again
+  if (stuck.length === 0) rebuildIndex(cases, quarantined, since);
+  else dropIndex();
+  return { cases: [...cases], quarantined: [...quarantined], usage: await storageUsage() };
 }
 
 function checkId(caseId: unknown): string {
@@ -275,7 +300,7 @@ export async function deleteCase(caseId: string): Promise<{ deleted: true }> {
       // without the copy there would be no undo: refuse, and the case stays as it was
       throw new Error(`case ${id}: not deleted, the copy kept for undo could not be saved (${(e as Error).message}); export it, then try again`);
     }
-    await browser.storage.local.remove(caseKey(id));
+    await removeLocal(caseKey(id));
     return { deleted: true as const };
   });
 }

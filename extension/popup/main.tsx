@@ -2,7 +2,7 @@ import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
 import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
-import { CaseView } from './case-view';
+import type { CaseView as CaseViewComponent } from './case-view';
 import { LogView, isLogRoute } from './log-view';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
 import type { Settings } from '../../src/case/settings';
@@ -102,8 +102,21 @@ async function targetTab(): Promise<{ id: number; url: string } | null> {
   return tab?.id !== undefined && tab.url ? { id: tab.id, url: tab.url } : null;
 }
 
+/**
+ * The case view, loaded on first use: it carries the engine and the units layer (mathjs), which the
+ * log view and a popup over a page with no case do not need before they draw.
+ */
+function useCaseView(): typeof CaseViewComponent | null {
+  const [view, setView] = useState<typeof CaseViewComponent | null>(null);
+  useEffect(() => {
+    void import('./case-view').then((m) => setView(() => m.CaseView));
+  }, []);
+  return view;
+}
+
 /** The measured cases of the tab's page; follows storage, so marks and edits appear as they are saved. */
 function Cases() {
+  const CaseView = useCaseView();
   const [cases, setCases] = useState<CaseRecord[] | null>(null);
   const [unreadable, setUnreadable] = useState(0);
   const [settings, setSettings] = useState<Settings>(DEFAULT_SETTINGS);
@@ -129,11 +142,11 @@ function Cases() {
     browser.storage.onChanged.addListener(onChanged);
     return () => browser.storage.onChanged.removeListener(onChanged);
   }, []);
-  if (cases === null) return null;
+  if (cases === null || (cases.length > 0 && !CaseView)) return null;
   return (
     <section>
-      {cases.length === 0 ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} system={settings.system} />)}
-      {unreadable > 0 && <p class="error">{unreadable} stored case(s) failed validation and are not shown; nothing was deleted.</p>}
+      {cases.length === 0 || !CaseView ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} system={settings.system} />)}
+      {unreadable > 0 && <p class="error">{t('popupUnreadable', String(unreadable))}</p>}
     </section>
   );
 }
@@ -158,7 +171,7 @@ function Popup() {
       </p>
       <p class="muted">
         <a href="#" onClick={(e) => { e.preventDefault(); void browser.runtime.openOptionsPage(); }}>
-          Settings: units, default camera and observer speed
+          {t('popupSettingsLink')}
         </a>
       </p>
       <footer class="muted" data-testid="version">

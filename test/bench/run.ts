@@ -1,5 +1,8 @@
 import { engineBench, type BenchRow } from './engine';
 import { overlayBench } from './overlay';
+import { caseBench } from './case';
+import { importBench } from './import';
+import { logBench } from './log';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -17,5 +20,8 @@ function print(rows: BenchRow[]): void {
 
 console.log(`engine benchmark on ${process.version}, ${(await import('node:os')).cpus().length} cores`);
 print(engineBench());
+caseBench();
+await importBench();
 
 await overlayBench();
+await logBench();

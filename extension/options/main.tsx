@@ -1,7 +1,7 @@
 import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
 import { parseBand } from '../../src/case/bands';
-import type { Settings } from '../../src/case/settings';
+import { MAX_MARKER_NAME, type Settings } from '../../src/case/settings';
 import { CAMERA_PROFILES } from '../../src/engine/profiles';
 import { message } from '../shared/browser';
 import { loadSettings, saveSettings } from '../shared/settings';
@@ -12,9 +12,12 @@ function Options() {
   const [speed, setSpeed] = useState('');
   const [status, setStatus] = useState('');
   const [speedError, setSpeedError] = useState<string | null>(null);
+  const [name, setName] = useState('');
+  const [nameError, setNameError] = useState<string | null>(null);
   useEffect(() => {
     loadSettings().then((x) => {
       setS(x);
+      setName(x.markerName ?? '');
       setSpeed(x.observerSpeedMs ? `${+(x.observerSpeedMs.lo * 3.6).toPrecision(4)} to ${+(x.observerSpeedMs.hi * 3.6).toPrecision(4)} km/h` : '');
     });
   }, []);
@@ -36,6 +39,19 @@ function Options() {
     } catch (e) {
       setSpeedError((e as Error).message);
     }
+  };
+  const commitName = () => {
+    const v = name.trim();
+    if (v.length > MAX_MARKER_NAME) {
+      setNameError(message('optNameTooLong', [String(v.length), String(MAX_MARKER_NAME)]));
+      return;
+    }
+    setNameError(null);
+    if (v === (s.markerName ?? '')) return;
+    const next = { ...s };
+    if (v) next.markerName = v;
+    else delete next.markerName;
+    save(next);
   };
   return (
     <main>
@@ -74,6 +90,25 @@ function Options() {
           {speedError && (
             <div class="error" role="alert">
               {speedError}
+            </div>
+          )}
+        </div>
+        <div class="field">
+          <label for="marker-name">{message('optNameLabel')}</label>
+          <input
+            id="marker-name"
+            data-testid="marker-name"
+            value={name}
+            maxLength={MAX_MARKER_NAME + 20}
+            placeholder={message('optNameHint')}
+            aria-invalid={nameError ? 'true' : 'false'}
+            onInput={(e) => setName((e.target as HTMLInputElement).value)}
+            onBlur={commitName}
+            onKeyDown={(e) => e.key === 'Enter' && commitName()}
+          />
+          {nameError && (
+            <div class="error" role="alert">
+              {nameError}
             </div>
           )}
         </div>

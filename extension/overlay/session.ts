@@ -60,6 +60,8 @@ export class MeasureSession {
   private assumptions: EngineAssumptions = engineAssumptions(undefined);
   /** The units chosen in the settings, followed live. */
   private system: UnitSystem = 'metric';
+  /** The name the settings give for whoever marks, '' when none. */
+  private markerName = '';
   private caseId = '';
   private record: CaseRecord | null = null;
   private tool: MarkKind = 'object-span';
@@ -217,8 +219,9 @@ export class MeasureSession {
     };
     browser.storage.onChanged.addListener(onStored);
     signal.addEventListener('abort', () => browser.storage.onChanged.removeListener(onStored));
-    const useSettings = (st: { system: UnitSystem }) => {
+    const useSettings = (st: { system: UnitSystem; markerName?: string }) => {
       this.system = st.system;
+      this.markerName = st.markerName ?? '';
       this.redraw();
     };
     void loadSettings().then(useSettings, () => undefined);
@@ -597,6 +600,8 @@ export class MeasureSession {
       edgeSigmaPx: sigma,
       ...(d.kind === 'object-span' ? { dimension: this.dimension } : {}),
       mapping: this.mappingRecord(),
+      // who marked it, when the user gave a name in the settings (no account: just the name)
+      ...(this.markerName ? { by: this.markerName } : {}),
       createdAt: Date.now(),
     };
     this.selected = { markId: mark.id, end: points.length - 1 };

@@ -21,6 +21,9 @@ export interface Settings {
   markerName?: string;
 }
 
+/** Longest name kept beside a mark (the case validation allows as much for a mark's `by`). */
+export const MAX_MARKER_NAME = 100;
+
 export const DEFAULT_SETTINGS: Settings = { version: SETTINGS_VERSION, system: 'metric', cameraProfile: 'phone-main-landscape-stabilised' };
 
 const SYSTEMS: readonly UnitSystem[] = ['metric', 'imperial', 'aviation'];
@@ -34,6 +37,6 @@ export function readSettings(raw: unknown): Settings {
   if (CAMERA_PROFILES.some((p) => p.id === o.cameraProfile)) s.cameraProfile = o.cameraProfile as string;
   const r = o.observerSpeedMs;
   if (r && Number.isFinite(r.lo) && Number.isFinite(r.hi) && r.lo >= 0 && r.hi >= r.lo && r.hi <= 1000) s.observerSpeedMs = { lo: r.lo, hi: r.hi };
-  if (typeof o.markerName === 'string') s.markerName = o.markerName.slice(0, 100);
+  if (typeof o.markerName === 'string' && o.markerName.trim()) s.markerName = o.markerName.trim().slice(0, MAX_MARKER_NAME);
   return s;
 }

@@ -1,13 +1,11 @@
-import { MAX_FRAME_PX, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
+import { MAX_SPEED_MS } from './constants';
 import { InputError } from './errors';
 import { FIT_OUT, FIT_OUT_LENGTH, FitPrecision, FitStatus, fitRangeOverTimeKernel } from './fit';
 import { Rng } from './rng';
 import { finiteShare, summarize, type Estimate } from './stats';
 import {
-  checkAspect,
-  checkHfov,
+  checkMarkedPass,
   checkOptions,
-  checkSpan,
   Columns,
   fillSpanRangeRows,
   fillSinAspect,
@@ -18,7 +16,7 @@ import {
   type SpanMark,
   type Tuple,
 } from './uncertainty';
-import { band, inRange, positive } from './validate';
+import { band } from './validate';
 
 /*
  * Range over time with its uncertainty: the same object marked at several timestamps, propagated
@@ -56,24 +54,8 @@ const seriesColumns = new Columns();
  */
 export function solveSeries(scene: SeriesScene, options: SolveOptions = {}): SeriesResult {
   const { draws, seed } = checkOptions(options, 2_000);
-  const W = scene.frame?.widthPx;
-  const H = scene.frame?.heightPx;
-  positive('camera frame width', W, MAX_FRAME_PX, ' px');
-  positive('camera frame height', H, MAX_FRAME_PX, ' px');
-  checkHfov(scene.hfov);
-  band('object size', scene.object?.size?.lo, scene.object?.size?.hi, 0.001, MAX_SIZE_M, ' m');
-  checkAspect('object aspect angle', scene.object.aspect);
+  const { W, H } = checkMarkedPass(scene, 3, 'a range-over-time fit');
   const marks = scene.marks;
-  if (!Array.isArray(marks) || marks.length < 3) {
-    throw new InputError('timestamps', marks, 'at least 3 marked timestamps for a range-over-time fit');
-  }
-  marks.forEach((m, i) => {
-    inRange(`timestamp ${i + 1}`, m.t, 0, MAX_TIME_S, ' s');
-    if (i > 0 && !(m.t > marks[i - 1]!.t)) {
-      throw new InputError(`timestamp ${i + 1}`, m.t, `later than timestamp ${i} (${marks[i - 1]!.t} s)`);
-    }
-    checkSpan(`object span at timestamp ${i + 1}`, m.span, W, H);
-  });
   if (scene.observerSpeed) band('observer speed', scene.observerSpeed.lo, scene.observerSpeed.hi, 0, MAX_SPEED_MS, ' m/s');
 
   const n = marks.length;

@@ -1,13 +1,11 @@
-import { MAX_FRAME_PX, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
+import { MAX_SPEED_MS } from './constants';
 import { InputError } from './errors';
 import { Rng } from './rng';
 import { summarize, type Estimate } from './stats';
 import { fixedCameraTrack, type TrackSample } from './track';
 import {
-  checkAspect,
-  checkHfov,
+  checkMarkedPass,
   checkOptions,
-  checkSpan,
   Columns,
   fillSinAspect,
   fillSpanRangeRows,
@@ -17,7 +15,7 @@ import {
   type SolveOptions,
   type SpanMark,
 } from './uncertainty';
-import { band, inRange, positive } from './validate';
+import { band } from './validate';
 
 /*
  * The fixed-camera ground track with its uncertainty (DESIGN.md "Fixed camera"): every draw redraws
@@ -63,28 +61,12 @@ const trackColumns = new Columns();
  */
 export function solveTrack(scene: TrackScene, options: SolveOptions = {}): TrackResult {
   const { draws, seed } = checkOptions(options, 1_000);
-  const W = scene.frame?.widthPx;
-  const H = scene.frame?.heightPx;
-  positive('camera frame width', W, MAX_FRAME_PX, ' px');
-  positive('camera frame height', H, MAX_FRAME_PX, ' px');
-  checkHfov(scene.hfov);
-  band('object size', scene.object?.size?.lo, scene.object?.size?.hi, 0.001, MAX_SIZE_M, ' m');
-  checkAspect('object aspect angle', scene.object.aspect);
+  const { W, H } = checkMarkedPass(scene, 2, 'a ground track');
   if (!scene.axisHeading) throw new InputError('camera aim', scene.axisHeading, 'a band of degrees between -180 and 180');
   band('camera aim', (scene.axisHeading.lo * 180) / Math.PI, (scene.axisHeading.hi * 180) / Math.PI, -180, 180, ' deg');
   if (!scene.cameraSpeed) throw new InputError('camera speed', scene.cameraSpeed, `a band of m/s between 0 and ${MAX_SPEED_MS}`);
   band('camera speed', scene.cameraSpeed.lo, scene.cameraSpeed.hi, 0, MAX_SPEED_MS, ' m/s');
   const marks = scene.marks;
-  if (!Array.isArray(marks) || marks.length < 2) {
-    throw new InputError('timestamps', marks, 'at least 2 marked timestamps for a ground track');
-  }
-  marks.forEach((m, i) => {
-    inRange(`timestamp ${i + 1}`, m.t, 0, MAX_TIME_S, ' s');
-    if (i > 0 && !(m.t > marks[i - 1]!.t)) {
-      throw new InputError(`timestamp ${i + 1}`, m.t, `later than timestamp ${i} (${marks[i - 1]!.t} s)`);
-    }
-    checkSpan(`object span at timestamp ${i + 1}`, m.span, W, H);
-  });
 
   const n = marks.length;
   const col = (k: number) => trackColumns.get(k, draws);

@@ -1,5 +1,5 @@
 import { spanHalfAngleTanUnchecked, spanLineConstants } from './camera';
-import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS } from './constants';
+import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS, MAX_TIME_S } from './constants';
 import { InputError } from './errors';
 import { parallelFixedPointFraction } from './fixedpoint';
 import { rangeUnchecked } from './range';
@@ -339,6 +339,37 @@ function checkBody(name: string, body: MarkedBody, W: number, H: number): void {
   checkSpan(`${name} span`, body.span, W, H);
   band(`${name} size`, body.size?.lo, body.size?.hi, 0.001, MAX_SIZE_M, ' m');
   checkAspect(`${name} aspect angle`, body.aspect);
+}
+
+/**
+ * The checks every solve over several timestamps of one object shares: the camera frame, the field
+ * of view, the object's size and aspect, and at least `minMarks` marks in strictly increasing time,
+ * each a valid span. `purpose` ends the message for too few marks. Returns the frame's size.
+ */
+export function checkMarkedPass(
+  scene: { frame: { widthPx: number; heightPx: number }; hfov: Band; object: { size: Band; aspect: Band }; marks: { t: number; span: SpanMark }[] },
+  minMarks: number,
+  purpose: string,
+): { W: number; H: number } {
+  const W = scene.frame?.widthPx;
+  const H = scene.frame?.heightPx;
+  positive('camera frame width', W, MAX_FRAME_PX, ' px');
+  positive('camera frame height', H, MAX_FRAME_PX, ' px');
+  checkHfov(scene.hfov);
+  band('object size', scene.object?.size?.lo, scene.object?.size?.hi, 0.001, MAX_SIZE_M, ' m');
+  checkAspect('object aspect angle', scene.object.aspect);
+  const marks = scene.marks;
+  if (!Array.isArray(marks) || marks.length < minMarks) {
+    throw new InputError('timestamps', marks, `at least ${minMarks} marked timestamps for ${purpose}`);
+  }
+  marks.forEach((m, i) => {
+    inRange(`timestamp ${i + 1}`, m.t, 0, MAX_TIME_S, ' s');
+    if (i > 0 && !(m.t > marks[i - 1]!.t)) {
+      throw new InputError(`timestamp ${i + 1}`, m.t, `later than timestamp ${i} (${marks[i - 1]!.t} s)`);
+    }
+    checkSpan(`object span at timestamp ${i + 1}`, m.span, W, H);
+  });
+  return { W, H };
 }
 
 export function checkSpan(field: string, s: SpanMark, W: number, H: number): void {

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import type { Page } from 'playwright-core';
-import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, tabIdFor, videoReady, type Loaded } from './harness';
+import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
@@ -50,6 +50,17 @@ async function popupFor(page: Page): Promise<Page> {
   const view = await app.context.newPage();
   await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
   return view;
+}
+
+/** Marks the object's ends at each frame's truth pixels with the overlay's first tool. */
+async function markObjectAtEachFrame(page: Page, box: { x: number; y: number }, frames: { t: number; object: { x1: number; y1: number; x2: number; y2: number } }[]) {
+  for (const [i, f] of frames.entries()) {
+    await seek(page, f.t);
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await drag(page, box, f.object);
+    await overlayReady(page, i + 1);
+  }
 }
 
 async function drag(page: Page, box: { x: number; y: number }, p: { x1: number; y1: number; x2: number; y2: number }) {
@@ -164,13 +175,7 @@ describe('the popup view of a measured case', () => {
   it('draws the range over time once three timestamps are marked, with a point per timestamp and the fitted pass', async () => {
     const drift = JSON.parse(readFileSync('test/fixtures/clips/drift-fixed.truth.json', 'utf8'));
     const { page, box } = await overlaid('/drift.html?plot');
-    for (const [i, f] of drift.frames.entries()) {
-      await seek(page, f.t);
-      await page.locator('clip-caliper-overlay .surface').focus();
-      await page.keyboard.press('1');
-      await drag(page, box, f.object);
-      await overlayReady(page, i + 1);
-    }
+    await markObjectAtEachFrame(page, box, drift.frames);
     const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('plot-point').count()).toBe(drift.frames.length);
     expect(await view.getByTestId('fit-curve').getAttribute('d')).toMatch(/^M[\d.]+,[\d.]+( L[\d.]+,[\d.]+){10,}$/);
@@ -216,13 +221,7 @@ describe('the popup view of a measured case', () => {
     const drift = JSON.parse(readFileSync('test/fixtures/clips/drift-fixed.truth.json', 'utf8'));
     await setUnits('metric');
     const { page, box } = await overlaid('/drift.html?chosen');
-    for (const [i, f] of drift.frames.entries()) {
-      await seek(page, f.t);
-      await page.locator('clip-caliper-overlay .surface').focus();
-      await page.keyboard.press('1');
-      await drag(page, box, f.object);
-      await overlayReady(page, i + 1);
-    }
+    await markObjectAtEachFrame(page, box, drift.frames);
     const view = await popupFor(page);
     await expect.poll(() => view.getByTestId('series').count()).toBe(1);
 
@@ -270,6 +269,35 @@ describe('the popup view of a measured case', () => {
     expect(Number(m![2])).toBeLessThan(65 * 3.6);
     expect(Number(m![3])).toBeGreaterThan(65 * 3.6);
     await view.close();
+    await page.close();
+  });
+
+  it('a name given in the settings goes with each new mark; too long a name is refused at the field', async () => {
+    const options = await app.context.newPage();
+    await options.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);
+    await options.getByTestId('marker-name').fill('x'.repeat(101));
+    await options.getByTestId('marker-name').press('Enter');
+    await expect.poll(() => options.getByRole('alert').textContent()).toContain('101 characters is more than the 100 allowed');
+    // an invented reviewer's name
+    await options.getByTestId('marker-name').fill('  Reviewer Plover ');
+    await options.getByTestId('marker-name').press('Enter');
+    await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
+    await options.close();
+    const { page, box } = await overlaid('/plain.html?named', truth.frames[0].t);
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await drag(page, box, truth.frames[0].object);
+    await overlayReady(page, 1);
+    const stored = Object.values(await storedCases(app)) as { video: { pageUrl: string }; marks: { by?: string }[] }[];
+    const c = stored.find((x) => x.video.pageUrl === page.url())!;
+    expect(c.marks.map((m) => m.by)).toEqual(['Reviewer Plover']);
+    // and the name can be taken away again: later marks carry none
+    const again = await app.context.newPage();
+    await again.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);
+    await again.getByTestId('marker-name').fill('');
+    await again.getByTestId('marker-name').press('Enter');
+    await expect.poll(() => again.getByRole('status').textContent()).toContain('Saved');
+    await again.close();
     await page.close();
   });
 

@@ -305,6 +305,22 @@ export async function deleteCase(caseId: string): Promise<{ deleted: true }> {
   });
 }
 
+/** What delete kept in storage.session: every case that can still be brought back, newest first. */
+export async function listDeleted(): Promise<{ cases: { id: string; title: string; deletedAt: number }[] }> {
+  const all = await browser.storage.session.get(null);
+  const cases: { id: string; title: string; deletedAt: number }[] = [];
+  for (const [key, raw] of Object.entries(all)) {
+    if (!key.startsWith(DELETED_PREFIX)) continue;
+    const entry = raw as Partial<DeletedCase> | undefined;
+    const v = entry?.record?.video;
+    // the copy was validated when it was deleted; a field that is not text is shown by the id alone
+    const title = typeof v?.pageTitle === 'string' && v.pageTitle ? v.pageTitle : typeof v?.pageUrl === 'string' ? v.pageUrl : '';
+    cases.push({ id: key.slice(DELETED_PREFIX.length), title, deletedAt: typeof entry?.deletedAt === 'number' ? entry.deletedAt : 0 });
+  }
+  cases.sort((a, b) => b.deletedAt - a.deletedAt);
+  return { cases };
+}
+
 export async function undeleteCase(caseId: string): Promise<CaseRecord> {
   const id = checkId(caseId);
   return serial(id, async () => {

@@ -16,6 +16,7 @@ import {
   storageUsage,
   takeSeek,
   undeleteCase,
+  listDeleted,
 } from './cases';
 import { foreignFrameOrigins, injectIntoOrigin, injectOverlay } from './inject';
 import { routeMessages } from './router';
@@ -47,6 +48,7 @@ browser.runtime.onMessage.addListener(
     'case/annotate': async ({ caseId, notes, status, tags }) => annotateCase(caseId, { notes, status, tags }),
     'case/delete': async ({ caseId }) => deleteCase(caseId),
     'case/undelete': async ({ caseId }) => undeleteCase(caseId),
+    'cases/deleted': async () => listDeleted(),
     'cases/import': async ({ text }) => importCases(text),
     'cases/export': async ({ caseIds }) => exportCases(caseIds),
     'storage/usage': async () => storageUsage(),

@@ -2,11 +2,13 @@ import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import type { CaseListing, QuarantineEntry, StorageUsage } from '../../src/case/listing';
 import { CASE_STATUSES, type CaseRecord, type CaseStatus, type MarkKind } from '../../src/case/schema';
 import { MAX_CASE_FILE_BYTES } from '../../src/case/casefile';
-import { CASE_PREFIX, QUARANTINE_PREFIX } from '../../src/case/store-policy';
+import { CASE_PREFIX, DELETED_PREFIX, QUARANTINE_PREFIX } from '../../src/case/store-policy';
 import { DEFAULT_QUERY, LruCache, SORT_KEYS, applyQuery, checkNotes, distinctSites, distinctTags, headlineKey, marksByTimestamp, openableUrl, parseDayRange, parseTags, shownTitle, visibleRows, type DateField, type LogQuery, type SortKey } from '../../src/case/log';
 import type { Headline } from '../../src/case/headline';
 import type { UnitSystem } from '../../src/engine/units';
-import { browser, message as t, send } from '../shared/browser';
+import { browser, extensionVersion, message as t, send } from '../shared/browser';
+import { marksCsv } from '../../src/case/csv';
+import { exportFileName } from '../../src/case/importing';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
 import './log.css';
 
@@ -33,7 +35,6 @@ const OVERSCAN = 6;
 /** Headlines kept for rows scrolled past (the engine runs once per case and saved version). */
 const HEADLINE_CACHE = 300;
 /** Deleted cases this tab offers to bring back; kept in the tab's session so a reload keeps them. */
-const DELETED_KEY = 'clip-caliper-log-deleted';
 
 // marks for the benchmark's breakdown of the first render (test/bench/log.ts); cost nothing otherwise
 performance.mark('log:module');
@@ -60,7 +61,8 @@ function stamp(s: number): string {
 function download(fileName: string, text: string): void {
   // an object URL of our own bytes: the file never leaves the machine
   const a = document.createElement('a');
-  a.href = URL.createObjectURL(new Blob([text], { type: 'application/json' }));
+  const type = fileName.endsWith('.csv') ? 'text/csv' : fileName.endsWith('.txt') ? 'text/plain' : 'application/json';
+  a.href = URL.createObjectURL(new Blob([text], { type: `${type};charset=utf-8` }));
   a.download = fileName;
   document.body.append(a);
   a.click();
@@ -562,6 +564,33 @@ function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: boolean; 
       setError(t('logExportFailed', (e as Error).message));
     }
   };
+  // marks as CSV and the summary as text: made here from the stored record, named by case and date
+  const exportCsv = async () => {
+    setError(null);
+    try {
+      const r = record ?? (await send('case/get', { caseId: c.id }));
+      if (!r) throw new Error(t('logGone'));
+      const name = exportFileName([c.id], Date.now(), 'csv');
+      download(name, marksCsv([r]));
+      say(t('logExported', name));
+    } catch (e) {
+      setError(t('logExportFailed', (e as Error).message));
+    }
+  };
+  const exportSummary = async () => {
+    setError(null);
+    try {
+      const r = record ?? (await send('case/get', { caseId: c.id }));
+      if (!r) throw new Error(t('logGone'));
+      // the engine and the units layer come in only when a summary is asked for
+      const [{ analyseCase }, { summaryText }] = await Promise.all([import('../../src/case/analysis'), import('../../src/case/summary')]);
+      const name = exportFileName([c.id], Date.now(), 'txt');
+      download(name, summaryText(r, analyseCase(r), { format: 'text', system: systemNow, toolVersion: extensionVersion() }));
+      say(t('logExported', name));
+    } catch (e) {
+      setError(t('logExportFailed', (e as Error).message));
+    }
+  };
   const remove = async () => {
     setError(null);
     try {
@@ -630,6 +659,12 @@ function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: boolean; 
         </button>{' '}
         <button type="button" class="secondary" data-testid="log-export-one" onClick={exportOne}>
           {t('logExportOne')}
+        </button>{' '}
+        <button type="button" class="secondary" data-testid="log-export-csv" onClick={() => void exportCsv()}>
+          {t('logExportCsv')}
+        </button>{' '}
+        <button type="button" class="secondary" data-testid="log-export-summary" onClick={() => void exportSummary()}>
+          {t('logExportSummary')}
         </button>{' '}
         {!confirming ? (
           <button type="button" class="secondary danger" data-testid="log-delete" onClick={() => setConfirming(true)}>
@@ -765,15 +800,6 @@ interface Deleted {
   id: string;
   title: string;
 }
-function loadDeleted(): Deleted[] {
-  try {
-    const v = JSON.parse(sessionStorage.getItem(DELETED_KEY) ?? '[]') as unknown;
-    return Array.isArray(v) ? v.filter((d): d is Deleted => typeof d?.id === 'string' && typeof d?.title === 'string') : [];
-  } catch {
-    return [];
-  }
-}
-
 /* ---- the whole view ---- */
 
 export function LogView() {
@@ -783,7 +809,7 @@ export function LogView() {
   const [lastQuery, setLastQuery] = useState<LogQuery>(DEFAULT_QUERY);
   const [selectedId, setSelectedId] = useState<string | null>(null);
   const [focusDetail, setFocusDetail] = useState(false);
-  const [deleted, setDeleted] = useState<Deleted[]>(loadDeleted);
+  const [deleted, setDeleted] = useState<Deleted[]>([]);
   const [notice, setNotice] = useState('');
   const system = useSystem();
 
@@ -835,12 +861,20 @@ export function LogView() {
     focusUndo.current = false;
     document.getElementById('log-undo-0')?.focus();
   }, [deleted]);
-  const mounted = useRef(false);
+  // what can still be undone is what the background kept (until the browser closes), whichever tab deleted it
   useEffect(() => {
-    // the first run would only write back what was just read
-    if (mounted.current) sessionStorage.setItem(DELETED_KEY, JSON.stringify(deleted));
-    mounted.current = true;
-  }, [deleted]);
+    const refresh = () =>
+      send('cases/deleted', {}).then(
+        (r) => setDeleted(r.cases.map((d) => ({ id: d.id, title: d.title || d.id }))),
+        () => undefined,
+      );
+    const onSession = (changes: Record<string, unknown>, area: string) => {
+      if (area === 'session' && Object.keys(changes).some((k) => k.startsWith(DELETED_PREFIX))) void refresh();
+    };
+    void refresh();
+    browser.storage.onChanged.addListener(onSession);
+    return () => browser.storage.onChanged.removeListener(onSession);
+  }, []);
 
   const parsed = useMemo(() => toQuery(filters), [filters]);
   const query = 'query' in parsed ? parsed.query : lastQuery;

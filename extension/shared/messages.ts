@@ -37,6 +37,8 @@ export interface RequestMap {
   /** Delete a case; it can be brought back with case/undelete until the browser closes. */
   'case/delete': { payload: { caseId: string }; reply: { deleted: true } };
   'case/undelete': { payload: { caseId: string }; reply: CaseRecord };
+  /** The cases deleted since the browser started (each can still be brought back), newest first. */
+  'cases/deleted': { payload: Record<string, never>; reply: { cases: { id: string; title: string; deletedAt: number }[] } };
   /** Validate a case file whole, then merge it (same id: both versions kept, newest in front). */
   'cases/import': { payload: { text: string }; reply: { added: string[]; merged: string[] } };
   /** One case or all (no ids) as a case file. */

@@ -202,6 +202,20 @@ describe('the case log edits, deletes and brings back', () => {
     await expect.poll(() => stored('seed0042')).toEqual(before);
     await expect.poll(countText).toBe(`${COUNT} of ${COUNT} cases shown`);
   });
+  it('a delete can still be undone after the log tab was closed and opened again (until the browser closes)', async () => {
+    await pick(log, '0043');
+    const before = (await stored('seed0043'))!;
+    await log.getByTestId('log-delete').click();
+    await log.getByTestId('log-delete-confirm').click();
+    await expect.poll(() => stored('seed0043')).toBeUndefined();
+    await log.close();
+    log = await openLog();
+    await expect.poll(() => log.getByTestId('log-undo').count()).toBeGreaterThanOrEqual(1);
+    expect(await log.locator('.log-undo').textContent()).toContain('0043');
+    await log.getByTestId('log-undo').first().click();
+    await expect.poll(() => stored('seed0043')).toEqual(before);
+    await expect.poll(() => log.getByTestId('log-undo').count()).toBe(0);
+  });
 });
 
 describe('the case log exports and imports', () => {
@@ -228,6 +242,26 @@ describe('the case log exports and imports', () => {
     const file = await downloading;
     const parsed = JSON.parse(readFileSync((await file.path())!, 'utf8')) as { case?: { id: string } };
     expect(parsed.case?.id).toBe('seed0003');
+    await log.getByTestId('log-search').fill('');
+  });
+
+  it('marks as CSV and the summary as text, each named by case and date', async () => {
+    await pick(log, '0003');
+    const record = (await stored('seed0003'))!;
+    const csvDl = log.waitForEvent('download');
+    await log.getByTestId('log-export-csv').click();
+    const csv = await csvDl;
+    expect(csv.suggestedFilename()).toMatch(/^clip-caliper-seed0003-\d{4}-\d{2}-\d{2}\.csv$/);
+    const lines = readFileSync((await csv.path())!, 'utf8').split('\r\n').filter((l) => l !== '');
+    // a header and one row per mark point (RFC 4180 line ends are CRLF)
+    expect(lines.length).toBe(1 + record.marks.reduce((n, m) => n + m.points.length, 0));
+    const txtDl = log.waitForEvent('download');
+    await log.getByTestId('log-export-summary').click();
+    const txt = await txtDl;
+    expect(txt.suggestedFilename()).toMatch(/^clip-caliper-seed0003-\d{4}-\d{2}-\d{2}\.txt$/);
+    const summary = readFileSync((await txt.path())!, 'utf8');
+    expect(summary).toContain('Clip Caliper case summary');
+    expect(summary).toContain('Never operate this tool, or film, while driving.');
     await log.getByTestId('log-search').fill('');
   });
 

@@ -226,7 +226,28 @@ function prepare(t: Float64Array, r: Float64Array, sigma: Float64Array, n: numbe
     swu += wl * (ti - tMid) * invHalf;
   }
   if (!ok || !(t[0]! >= 0)) throwFirstInvalid(t, r, sigma, n);
-  const c = swu / sw;
+  pre[0] = tMid;
+  pre[1] = invHalf;
+  pre[2] = invRs;
+  pre[3] = swu / sw;
+  return linearStep(t, r, 0, 1, n, w);
+}
+
+/*
+ * [tMid, invHalf, invRs, c] from the first pass, for linearStep: four doubles passed as arguments to
+ * a call that is not inlined would be boxed, one allocation each, on every draw.
+ */
+const pre = new Float64Array(4);
+
+/**
+ * The second pass and the linear solve, shared by both first passes: range i read from r[off + i stride],
+ * time centred on the weighted centroid c (pre), the workspace filled for the refinement.
+ */
+function linearStep(t: Float64Array, r: Float64Array, off: number, stride: number, n: number, w: Float64Array): boolean {
+  const tMid = pre[0]!;
+  const invHalf = pre[1]!;
+  const invRs = pre[2]!;
+  const c = pre[3]!;
   if (!Number.isFinite(c)) return false;
   const tm = tMid + c / invHalf;
   const invTs = invHalf / Math.max(1 + c, 1 - c);
@@ -241,7 +262,7 @@ function prepare(t: Float64Array, r: Float64Array, sigma: Float64Array, n: numbe
   let y2 = 0;
   for (let i = 0; i < n; i++) {
     const tau = (t[i]! - tm) * invTs;
-    const rho = r[i]! * invRs;
+    const rho = r[off + i * stride]! * invRs;
     if (rho < minRho) minRho = rho;
     const y = rho * rho;
     const wl = w[3 * i + 2]!;
@@ -272,6 +293,35 @@ function prepare(t: Float64Array, r: Float64Array, sigma: Float64Array, n: numbe
   sys[7] = y1;
   sys[8] = y0;
   return solveSym3(sys, 0);
+}
+
+
+/**
+ * The first pass for a bootstrap draw: range i from rows[off + i stride], each range's sigma that range
+ * times rel[i], and no validation (the caller checked the timestamps once, and each range as it
+ * made it). The same arithmetic as prepare() on those values, so a draw fits as it would there.
+ */
+function prepareDraw(t: Float64Array, rows: Float64Array, off: number, stride: number, rel: Float64Array, n: number, w: Float64Array): boolean {
+  const tMid = 0.5 * (t[0]! + t[n - 1]!);
+  const invHalf = 2 / (t[n - 1]! - t[0]!);
+  const invRs = 1 / rows[off]!;
+  let sw = 0;
+  let swu = 0;
+  for (let i = 0; i < n; i++) {
+    const ri = rows[off + i * stride]!;
+    const si = ri * rel[i]!;
+    const rho = ri * invRs;
+    const s = si * invRs;
+    const wl = 0.25 / (rho * rho * s * s);
+    w[3 * i + 2] = wl;
+    sw += wl;
+    swu += wl * (t[i]! - tMid) * invHalf;
+  }
+  pre[0] = tMid;
+  pre[1] = invHalf;
+  pre[2] = invRs;
+  pre[3] = swu / sw;
+  return linearStep(t, rows, off, stride, n, w);
 }
 
 /**
@@ -513,6 +563,34 @@ export function fitRangeOverTimeKernel(
   const linearOk = prepare(t, r, sigma, n, w);
   out.fill(0, 0, FIT_OUT_LENGTH);
   if (!linearOk) return FitStatus.SINGULAR;
+  return fromLinearStep(w, n, out, precision);
+}
+
+/**
+ * fitRangeOverTimeKernel for one bootstrap draw, reading its ranges straight from a matrix of draws:
+ * range i at rows[offset + i stride], each range's sigma that range times rel[i]. Inputs
+ * are trusted (the caller validated the timestamps once and made each range in bounds); `out` must
+ * hold FIT_OUT_LENGTH slots and `work` 3n. Refines at FitPrecision.BOOTSTRAP. Gives the same fit as
+ * the checked kernel on the same values (tested), without copying them out first.
+ */
+export function fitRangeOverTimeDrawKernel(
+  t: Float64Array,
+  rows: Float64Array,
+  offset: number,
+  stride: number,
+  rel: Float64Array,
+  n: number,
+  out: Float64Array,
+  work: Float64Array,
+): FitStatusCode {
+  const linearOk = prepareDraw(t, rows, offset, stride, rel, n, work);
+  out.fill(0, 0, FIT_OUT_LENGTH);
+  if (!linearOk) return FitStatus.SINGULAR;
+  return fromLinearStep(work, n, out, FitPrecision.BOOTSTRAP);
+}
+
+/** The refinement and the answer, from the linear step that prepare() or prepareDraw() left in `sol`. */
+function fromLinearStep(w: Float64Array, n: number, out: Float64Array, precision: FitPrecisionCode): FitStatusCode {
   let p2 = sol[0]!;
   let p1 = sol[1]!;
   let p0 = sol[2]!;

@@ -9,6 +9,7 @@ import {
   MIN_CURVATURE_Z,
   bootstrapRangeFit,
   fitRangeOverTime,
+  fitRangeOverTimeDrawKernel,
   fitRangeOverTimeKernel,
   fitRangeSquaredQuadraticKernel,
   fitStatusReason,
@@ -423,6 +424,33 @@ describe('fitRangeOverTimeKernel', () => {
     expect(compared).toBeGreaterThan(2000);
     expect(worst).toBeLessThan(0.015);
     expect(worst).toBeGreaterThan(0); // the shortcut is taken: it is not the full fit under another name
+  });
+
+  it('the draw kernel, reading a row of a matrix, gives exactly what the checked kernel gives on the same values', () => {
+    const rng = new Rng(777);
+    const n = 12;
+    const draws = 40;
+    const t = Float64Array.from({ length: n }, (_, i) => 0.5 + i * 0.4);
+    const rel = Float64Array.from({ length: n }, () => 0.01 + 0.03 * rng.uniform());
+    const rows = new Float64Array(draws * n);
+    for (let d = 0; d < draws; d++) {
+      const p = { D: 300 + 3000 * rng.uniform(), V: 20 + 200 * rng.uniform(), t0: 5 * rng.uniform() };
+      for (let i = 0; i < n; i++) rows[d * n + i] = range(p, t[i]!) * (1 + rel[i]! * rng.normal());
+    }
+    const a = new Float64Array(FIT_OUT_LENGTH);
+    const b = new Float64Array(FIT_OUT_LENGTH);
+    const work = new Float64Array(3 * n);
+    let ok = 0;
+    for (let d = 0; d < draws; d++) {
+      const r = rows.slice(d * n, d * n + n);
+      const sigma = r.map((x, i) => x * rel[i]!);
+      const sa = fitRangeOverTimeKernel(t, r, sigma, n, a, undefined, FitPrecision.BOOTSTRAP);
+      const sb = fitRangeOverTimeDrawKernel(t, rows, d * n, 1, rel, n, b, work);
+      expect(sb).toBe(sa);
+      expect([...b]).toEqual([...a]);
+      if (sa === FitStatus.OK) ok++;
+    }
+    expect(ok).toBeGreaterThan(draws / 2);
   });
 
   it('fits only the first n samples when the arrays are longer', () => {

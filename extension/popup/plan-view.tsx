@@ -18,12 +18,13 @@ const LABELS: Record<PlanView['direction'], string> = {
  * track, a sight line per timestamp, and the motionless point they all pass through.
  */
 export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
-  const readings = (['opposite', 'same-slower', 'same-faster'] as const).filter((d) =>
-    d === 'opposite' ? r.series?.objectSpeed?.opposite : d === 'same-slower' ? r.series?.objectSpeed?.sameSlower : r.series?.objectSpeed?.sameFaster,
-  );
-  const [direction, setDirection] = useState<PlanView['direction'] | undefined>(undefined);
+  // the fit's readings the direction assumed leaves open (analysis.ts speedReadings), in its order
+  const readings = r.readings.filter((x) => x.basis.startsWith('fit-')).map((x) => x.basis.slice(4) as PlanView['direction']);
+  const [chosen, setDirection] = useState<PlanView['direction'] | undefined>(undefined);
+  const direction = chosen && readings.includes(chosen) ? chosen : readings[0];
   const p = useMemo(() => planView(r, direction), [r, direction]);
-  if (!p) return null;
+  // a fit none of whose readings fits the direction assumed: no picture to draw that agrees with it
+  if (!p || (r.series && p.mode === 'pass' && readings.length === 0)) return null;
   const b = p.bounds;
   const k = Math.min(W / (b.xMax - b.xMin), H / (b.yMax - b.yMin));
   const x = (v: number) => (v - b.xMin) * k + (W - (b.xMax - b.xMin) * k) / 2;

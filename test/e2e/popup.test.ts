@@ -251,6 +251,9 @@ describe('the popup view of a measured case', () => {
     await view.getByTestId('field-direction').selectOption('opposite');
     await expect.poll(() => view.getByTestId('fit-reading').count()).toBe(1);
     expect(await view.getByTestId('fit-reading').textContent()).toContain('if opposite');
+    // the plan view follows: no choice of direction left, and it reads the object as flying the other way
+    expect(await view.getByTestId('plan-direction').count()).toBe(0);
+    expect(await view.getByTestId('plan-view').getAttribute('aria-label')).toContain('flying opposite');
 
     // wind: the verdict judges the airspeed
     await view.getByTestId('field-headwindMs').fill('10 to 20 km/h');

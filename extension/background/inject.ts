@@ -1,3 +1,4 @@
+import firstStageFile from '../overlay/first.ts?script&iife';
 import overlayFile from '../overlay/index.ts?script&iife';
 import { browser } from '../shared/browser';
 
@@ -9,10 +10,11 @@ import { browser } from '../shared/browser';
  * one frame (a video in a frame from another origin, once the user has granted that site).
  */
 export async function injectOverlay(tabId: number, frameId?: number): Promise<boolean> {
-  await browser.scripting.executeScript({
-    target: frameId === undefined ? { tabId } : { tabId, frameIds: [frameId] },
-    files: [overlayFile],
-  });
+  const target = frameId === undefined ? { tabId } : { tabId, frameIds: [frameId] };
+  // two stages: a few kilobytes that draw the panel at once, then the overlay that wires it
+  // (overlay/first.ts); the second waits for the first, so the panel is there when it looks
+  await browser.scripting.executeScript({ target, files: [firstStageFile] });
+  await browser.scripting.executeScript({ target, files: [overlayFile] });
   return true;
 }
 

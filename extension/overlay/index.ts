@@ -1,5 +1,6 @@
 import { Chooser } from './chooser';
 import { MeasureSession } from './session';
+import { dropShell, takeShell } from './shell';
 import { findVideos, foreignFrameOrigins } from './videos';
 
 /*
@@ -21,7 +22,7 @@ function mount(reg: Registry, video: HTMLVideoElement, index: number): void {
     reg.sessions.get(video)!.focus();
     return;
   }
-  reg.sessions.set(video, new MeasureSession(video, index, (s) => reg.sessions.delete(s.video)));
+  reg.sessions.set(video, new MeasureSession(video, index, (s) => reg.sessions.delete(s.video), takeShell(video)));
 }
 
 function run(this: Registry): void {
@@ -61,3 +62,5 @@ function followWhileChoosing(reg: Registry, shown: HTMLVideoElement[]): void {
 const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run };
 g[KEY] = reg;
 reg.run();
+// a shell the first stage drew for a video this run did not mount (the page changed meanwhile)
+dropShell();

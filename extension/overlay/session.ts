@@ -14,26 +14,11 @@ import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './f
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
-import { OVERLAY_CSS } from './styles';
+import { buildPanel, FIRST_TOOL, TOOLS } from './panel';
+import type { Shell } from './shell';
 
 /** Until a snap says better (common practice: about the width of an anti-aliased edge). */
 const DEFAULT_EDGE_SIGMA_PX = 0.7;
-
-interface ToolDef {
-  kind: MarkKind;
-  label: string;
-  key: string;
-  hint: string;
-}
-
-/* Our own names for the marking tools; the keys 1-5 choose them. */
-const TOOLS: readonly ToolDef[] = [
-  { kind: 'object-span', label: message('ovlToolObject'), key: '1', hint: message('ovlToolObjectHint') },
-  { kind: 'landmark-span', label: message('ovlToolLandmark'), key: '2', hint: message('ovlToolLandmarkHint') },
-  { kind: 'frame-edges', label: message('ovlToolEdges'), key: '3', hint: message('ovlToolEdgesHint') },
-  { kind: 'lane-dash', label: message('ovlToolLane'), key: '4', hint: message('ovlToolLaneHint') },
-  { kind: 'object-centre', label: message('ovlToolCentre'), key: '5', hint: message('ovlToolCentreHint') },
-];
 
 const COLOURS: Record<MarkKind, string> = {
   'object-span': 'var(--mark-object, #e8590c)',
@@ -64,7 +49,7 @@ export class MeasureSession {
   private markerName = '';
   private caseId = '';
   private record: CaseRecord | null = null;
-  private tool: MarkKind = 'object-span';
+  private tool: MarkKind = FIRST_TOOL;
   private dimension: Mark['dimension'] = 'wingspan';
   private draft: Draft | null = null;
   private selected: { markId: string; end: number } | null = null;
@@ -93,58 +78,32 @@ export class MeasureSession {
     readonly video: HTMLVideoElement,
     private readonly index: number,
     private readonly onClosed: (s: MeasureSession) => void,
+    shell: Shell | null = null,
   ) {
-    this.host = new OverlayHost(video);
+    // the first stage may have drawn the host and panel already: this session wires those elements
+    this.host = shell?.host ?? new OverlayHost(video);
+    const parts = shell?.parts ?? buildPanel(this.host.root);
     this.pixels = new FramePixels(
       video,
       () => this.currentMapping(),
       (hidden) => forceStyle(this.host.el, { visibility: hidden ? 'hidden' : 'visible' }),
     );
-    const root = this.host.root;
-    root.append(h('style', {}, OVERLAY_CSS));
-
-    this.layer = svg('svg', { 'aria-hidden': 'true' }) as SVGSVGElement;
-    this.surface = h('div', {
-      class: 'surface',
-      tabindex: 0,
-      role: 'application',
-      'aria-label': message('ovlSurfaceLabel'),
-    });
-    this.surface.append(this.layer);
-    this.magCanvas = h('canvas', { width: 32, height: 32 });
-    this.magnifier = h('div', { class: 'magnifier', 'aria-hidden': 'true' }, this.magCanvas, h('div', { class: 'cross-h' }), h('div', { class: 'cross-v' }));
-
-    const tools = h('div', { class: 'row tools', role: 'toolbar', 'aria-label': message('ovlToolsLabel') });
-    for (const t of TOOLS) {
-      const b = h('button', { type: 'button', 'aria-pressed': t.kind === this.tool ? 'true' : 'false', title: message('ovlToolTitle', [t.hint, t.key]), 'data-kind': t.kind }, `${t.key} ${t.label}`);
-      b.addEventListener('click', () => this.chooseTool(t.kind), { signal: this.host.signal });
-      this.toolButtons.set(t.kind, b);
-      tools.append(b);
+    this.layer = parts.layer;
+    this.surface = parts.surface;
+    this.magCanvas = parts.magCanvas;
+    this.magnifier = parts.magnifier;
+    this.readoutEl = parts.readout;
+    this.noticeEl = parts.notice;
+    this.live = parts.live;
+    this.panel = parts.panel;
+    const signal = this.host.signal;
+    for (const [kind, b] of parts.toolButtons) {
+      b.addEventListener('click', () => this.chooseTool(kind), { signal });
+      this.toolButtons.set(kind, b);
     }
-    const dim = h(
-      'select',
-      { 'aria-label': message('ovlDimensionLabel') },
-      h('option', { value: 'wingspan' }, message('ovlDimensionWingspan')),
-      h('option', { value: 'length' }, message('ovlDimensionLength')),
-    );
-    dim.addEventListener('change', () => (this.dimension = dim.value as Mark['dimension']), { signal: this.host.signal });
-    const close = h('button', { type: 'button', class: 'close', title: message('ovlCloseTitle') }, message('ovlClose'));
-    close.addEventListener('click', () => void this.close(), { signal: this.host.signal });
-    tools.append(dim, close);
-
-    this.readoutEl = h('div', { class: 'readout', 'data-testid': 'readout' });
-    this.noticeEl = h('div', { class: 'notice', 'data-testid': 'notice' });
-    this.live = h('div', { class: 'sr', 'aria-live': 'polite', 'data-testid': 'live' });
-    this.panel = h(
-      'div',
-      { class: 'panel', role: 'dialog', 'aria-label': message('ovlPanelLabel') },
-      tools,
-      this.readoutEl,
-      this.noticeEl,
-      h('div', { class: 'caution' }, message('ovlCaution')),
-      this.live,
-    );
-    root.append(this.surface, this.magnifier, this.panel);
+    const dim = parts.dimension;
+    dim.addEventListener('change', () => (this.dimension = dim.value as Mark['dimension']), { signal });
+    parts.close.addEventListener('click', () => void this.close(), { signal });
     this.finishAfterFirstFrame();
   }
 

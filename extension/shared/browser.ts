@@ -11,10 +11,7 @@ export function extensionVersion(): string {
   return browser.runtime.getManifest().version;
 }
 
-export function message(key: string, substitutions?: string | string[]): string {
-  // Falls back to the key so that a missing string is visible rather than blank.
-  return browser.i18n.getMessage(key, substitutions) || key;
-}
+export { message } from './i18n';
 
 /** Sends a typed request to the background and unwraps its reply (throws the background's error). */
 export async function send<K extends RequestType>(

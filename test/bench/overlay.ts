@@ -9,7 +9,8 @@ import { startServer, type TestServer } from '../../extension/tools/static-serve
  * The overlay part of `npm run bench`: what the injected file costs to ship, to call up and to drag
  * with, in one headless Chromium run against the e2e build. Prints figures; asserts nothing.
  */
-const SHIPPED_OVERLAY = 'dist/extension/overlay/index.js';
+// both injected stages: the first draws the panel, the second wires it (background/inject.ts)
+const SHIPPED_OVERLAY = ['dist/extension/overlay/first.js', 'dist/extension/overlay/index.js'];
 const TARGET_GZIP_BYTES = 30 * 1024;
 const TARGET_INJECT_RATIO = 2;
 const TARGET_MOVE_P95_MS = 2;
@@ -44,9 +45,10 @@ function buildBoth(): void {
 }
 
 function printBundleSize(): void {
-  const gz = gzipSync(readFileSync(SHIPPED_OVERLAY), { level: 9 }).length;
+  const sizes = SHIPPED_OVERLAY.map((f) => gzipSync(readFileSync(f), { level: 9 }).length);
+  const gz = sizes.reduce((a, b) => a + b, 0);
   console.log(
-    `overlay injected bundle (${SHIPPED_OVERLAY}): ${gz} B gzip -9 = ${(gz / 1024).toFixed(1)} KB ` +
+    `overlay injected bundle (${SHIPPED_OVERLAY.map((f, i) => `${f} ${sizes[i]} B`).join(' + ')}, gzip -9): ${gz} B = ${(gz / 1024).toFixed(1)} KB ` +
       `(target < ${TARGET_GZIP_BYTES / 1024} KB: ${verdict(gz < TARGET_GZIP_BYTES)})`,
   );
 }

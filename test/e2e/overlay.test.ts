@@ -194,6 +194,27 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
+  it('the panel the first stage draws is the one the session then wires: one host, never replaced', async () => {
+    const page = await open('/plain.html?two-stage');
+    await videoReady(page);
+    // remember the first host element that appears, and count every one ever added
+    await page.evaluate(`(() => {
+      window.__hosts = [];
+      new MutationObserver((records) => {
+        for (const r of records) for (const n of r.addedNodes) if (n.nodeName === 'CLIP-CALIPER-OVERLAY') window.__hosts.push(n);
+      }).observe(document.documentElement, { childList: true, subtree: true });
+    })()`);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    await expect.poll(() => page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-ready')`)).toBe(true);
+    expect(await page.evaluate(`window.__hosts.length`)).toBe(1);
+    expect(await page.evaluate(`window.__hosts[0] === document.querySelector('clip-caliper-overlay')`)).toBe(true);
+    // and its buttons work: the second tool, chosen by a click on the first stage's button
+    await page.locator('clip-caliper-overlay button[data-kind=landmark-span]').click();
+    expect(await page.locator('clip-caliper-overlay button[data-kind=landmark-span]').getAttribute('aria-pressed')).toBe('true');
+    await page.close();
+  });
+
   it('closes on Escape and leaves nothing behind', async () => {
     const page = await open('/plain.html');
     await videoReady(page);

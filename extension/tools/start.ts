@@ -16,6 +16,7 @@ import { analyseCase } from '../../src/case/analysis';
 import type { CaseRecord } from '../../src/case/schema';
 import { summaryText } from '../../src/case/summary';
 import { startServer } from './static-server';
+import { markObjectAndLandmark } from './drag-marks';
 
 const headless = process.argv.includes('--headless');
 const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { version: string };
@@ -94,18 +95,7 @@ async function unattended(browserPath: string): Promise<number> {
     await readout.filter({ hasText: /\d+ marks? saved/ }).waitFor();
     console.log('Called the overlay up.');
 
-    const box = (await page.locator('video').boundingBox())!;
-    const drag = async (p: Record<'x1' | 'y1' | 'x2' | 'y2', number>) => {
-      await page.mouse.move(box.x + p.x1, box.y + p.y1);
-      await page.mouse.down();
-      await page.mouse.move(box.x + p.x2, box.y + p.y2, { steps: 6 });
-      await page.mouse.up();
-    };
-    await page.locator('clip-caliper-overlay .surface').focus();
-    await page.keyboard.press('1');
-    await drag(frame.object);
-    await page.keyboard.press('2');
-    await drag(mast);
+    await markObjectAndLandmark(page, frame.object, mast);
     await readout.filter({ hasText: '2 marks saved' }).waitFor();
     console.log('Marked the aircraft’s wingtips and the mast at their true pixels (the ends snapped to the edges).');
 

@@ -6,6 +6,7 @@ import { newCase, upsertMark, withAnnotation } from '../../src/case/marks';
 import { MAX_HISTORY, type CaseRecord } from '../../src/case/schema';
 import { CaseFormatError, MAX_MARKS_PER_CASE, validateCase } from '../../src/case/validate';
 import { markArb, v2RecordArb } from './arbitraries';
+import { failure } from './expect-format-error';
 
 const video = { pageUrl: 'http://127.0.0.1:8000/plain.html', pageTitle: 'Invented clip', src: '', width: 640, height: 360, duration: 4 };
 const mapping = { objectFit: 'fill', objectPosition: '50% 50%', picture: { x: 0, y: 0, width: 640, height: 360 }, scale: 1, devicePixelRatio: 1 };
@@ -16,15 +17,6 @@ const markAt = (id: string, x: number) => ({ id, kind: 'object-span' as const, t
 const base = upsertMark(newCase(ID, video, '0.1.0', 100), markAt('m1', 10), 200);
 const edited = withAnnotation(upsertMark(base, markAt('m2', 50), 300), { status: 'explained' }, 300);
 
-const failure = (f: () => unknown): CaseFormatError => {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(CaseFormatError);
-    return e as CaseFormatError;
-  }
-  throw new Error('did not throw');
-};
 
 describe('merging one case', () => {
   it('the newer by updatedAt stays in front, the other goes into history', () => {

@@ -4,21 +4,13 @@ import { describe, expect, it } from 'vitest';
 import { parseCaseFile } from '../../src/case/casefile';
 import { MIGRATIONS, migrate, readCaseRecord } from '../../src/case/migrate';
 import { SCHEMA_VERSION } from '../../src/case/schema';
-import { CaseFormatError, validateCase } from '../../src/case/validate';
+import { validateCase } from '../../src/case/validate';
 import { v1RecordArb, v2RecordArb } from './arbitraries';
+import { failure } from './expect-format-error';
 
 const fixture = (name: string) => readFileSync(`test/case/fixtures/v1/${name}`, 'utf8');
 const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 
-const failure = (f: () => unknown): CaseFormatError => {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(CaseFormatError);
-    return e as CaseFormatError;
-  }
-  throw new Error('did not throw');
-};
 
 describe('the migration list', () => {
   it('climbs one version at a time from 1 to the current schema', () => {

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
+import { markObjectAndLandmark } from '../../extension/tools/drag-marks';
 import { seedCases, writeCases } from './log-seed';
 
 /*
@@ -57,18 +58,7 @@ async function markedDemo(app: Loaded): Promise<Page> {
   await seek(page, frame.t);
   await injectOverlay(app, page.url());
   await overlayReady(page);
-  const box = (await page.locator('video').boundingBox())!;
-  const drag = async (p: Record<'x1' | 'y1' | 'x2' | 'y2', number>) => {
-    await page.mouse.move(box.x + p.x1, box.y + p.y1);
-    await page.mouse.down();
-    await page.mouse.move(box.x + p.x2, box.y + p.y2, { steps: 6 });
-    await page.mouse.up();
-  };
-  await page.locator('clip-caliper-overlay .surface').focus();
-  await page.keyboard.press('1');
-  await drag(frame.object);
-  await page.keyboard.press('2');
-  await drag(frame.landmarks.find((l: { id: string }) => l.id === 'mast'));
+  await markObjectAndLandmark(page, frame.object, frame.landmarks.find((l: { id: string }) => l.id === 'mast'));
   await overlayReady(page, 2);
   return page;
 }

@@ -38,10 +38,6 @@ export function distanceEstimate(e: Estimate, system: UnitSystem = 'metric'): st
   return `${sig3(e.median / k)} ${u} (${sig3(e.p05 / k)}–${sig3(e.p95 / k)} ${u}, 5–95 %)`;
 }
 
-export function degrees(rad: number): string {
-  return `${sig3((rad * 180) / Math.PI)}°`;
-}
-
 /** "2.87° (2.70–3.05°, 5–95 %)": an angle with its interval. */
 export function degreesEstimate(e: Estimate): string {
   const d = (rad: number) => sig3((rad * 180) / Math.PI);

@@ -16,7 +16,7 @@ import { analyseCase } from '../../src/case/analysis';
 import type { CaseRecord } from '../../src/case/schema';
 import { summaryText } from '../../src/case/summary';
 import { startServer } from './static-server';
-import { markObjectAndLandmark } from './drag-marks';
+import { demoAssumptions, markObjectAndLandmark } from './demo-flow';
 
 const headless = process.argv.includes('--headless');
 const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { version: string };
@@ -102,20 +102,7 @@ async function unattended(browserPath: string): Promise<number> {
     const cases = (await ext.evaluate(`chrome.storage.local.get(null)`)) as Record<string, CaseRecord>;
     const c0 = Object.values(cases).find((c) => c?.video?.pageUrl === page.url())!;
     // what a reviewer would type in the popup for this clip
-    const assumed = await ask('case/assume', {
-      caseId: c0.id,
-      assumptions: {
-        cameraLabel: 'camera known to 39-41 deg',
-        hfovDeg: { lo: 39, hi: 41 },
-        // the demo's aircraft is invented with a known wingspan; a real clip would use its class band
-        sizeLabel: 'wingspan known for the demo aircraft, 31-33 m',
-        objectSizeM: { lo: 31, hi: 33 },
-        aspectDeg: { lo: 90, hi: 90 },
-        landmarkSizeM: { lo: mastSize * 0.9, hi: mastSize * 1.1 },
-        observerSpeedMs: { lo: 86 / 3.6, hi: 94 / 3.6 },
-        objectKind: 'fixed-wing-transport',
-      },
-    });
+    const assumed = await ask('case/assume', { caseId: c0.id, assumptions: demoAssumptions(mastSize) });
     if (!assumed.ok) throw new Error(assumed.error);
     const c = assumed.value as CaseRecord;
     console.log('Set the assumptions: field of view 39-41 deg, wingspan 31-33 m, mast ±10 %, 90 km/h ± 4.\n');

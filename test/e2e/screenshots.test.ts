@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
-import { markObjectAndLandmark } from '../../extension/tools/drag-marks';
+import { demoAssumptions, markObjectAndLandmark } from '../../extension/tools/demo-flow';
 import { seedCases, writeCases } from './log-seed';
 
 /*
@@ -73,19 +73,7 @@ describe('walkthrough pictures from the demo clip', () => {
       // the assumptions the demo's guide suggests for its invented scene
       const mast = truth.landmarks.find((l: { id: string }) => l.id === 'mast').sizeM;
       const cases = (await sendAsPopup(app, 'cases/forPage', { pageUrl: page.url().split('#')[0] })) as { cases: { id: string }[] };
-      await sendAsPopup(app, 'case/assume', {
-        caseId: cases.cases[0]!.id,
-        assumptions: {
-          cameraLabel: 'camera known to 39-41 deg',
-          hfovDeg: { lo: 39, hi: 41 },
-          sizeLabel: 'wingspan known for the demo aircraft, 31-33 m',
-          objectSizeM: { lo: 31, hi: 33 },
-          aspectDeg: { lo: 90, hi: 90 },
-          landmarkSizeM: { lo: mast * 0.9, hi: mast * 1.1 },
-          observerSpeedMs: { lo: 86 / 3.6, hi: 94 / 3.6 },
-          objectKind: 'fixed-wing-transport',
-        },
-      });
+      await sendAsPopup(app, 'case/assume', { caseId: cases.cases[0]!.id, assumptions: demoAssumptions(mast) });
       const view = await app.context.newPage();
       await view.setViewportSize({ width: 520, height: 900 });
       await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);

@@ -18,7 +18,8 @@ import {
   undeleteCase,
   listDeleted,
 } from './cases';
-import { foreignFrameOrigins, injectIntoOrigin, injectOverlay } from './inject';
+import { injectOverlay } from '../shared/call-up';
+import { foreignFrameOrigins, injectIntoOrigin } from './inject';
 import { routeMessages } from './router';
 
 const MENU_ID = 'clip-caliper-measure-video';

@@ -1,22 +1,5 @@
-import firstStageFile from '../overlay/first.ts?script&iife';
-import overlayFile from '../overlay/index.ts?script&iife';
 import { browser } from '../shared/browser';
-
-/**
- * Calls the overlay up in a tab: the only way it reaches a page (no content script runs on load).
- * activeTab grants the tab for the gesture that led here (toolbar popup, keyboard command, context
- * menu). The overlay guards itself against a second mount, so injecting twice is harmless.
- * Same-origin frames are reached from the top document; with frameId the script goes into that
- * one frame (a video in a frame from another origin, once the user has granted that site).
- */
-export async function injectOverlay(tabId: number, frameId?: number): Promise<boolean> {
-  const target = frameId === undefined ? { tabId } : { tabId, frameIds: [frameId] };
-  // two stages: a few kilobytes that draw the panel at once, then the overlay that wires it
-  // (overlay/first.ts); the second waits for the first, so the panel is there when it looks
-  await browser.scripting.executeScript({ target, files: [firstStageFile] });
-  await browser.scripting.executeScript({ target, files: [overlayFile] });
-  return true;
-}
+import { injectOverlay } from '../shared/call-up';
 
 /** Origins of the tab's frames that the top document cannot read (listed from the top frame). */
 export async function foreignFrameOrigins(tabId: number): Promise<string[]> {

@@ -1,15 +1,13 @@
 import { forceStyle } from './dom';
 
-const HOST_TAG = 'clip-caliper-overlay';
-
 /**
  * One host element per measured video: a shadow root the page's CSS cannot reach, placed over the
- * video's box and kept there through scroll, resize, zoom, transforms and fullscreen. Keyboard
+ * video's box and kept there through scroll, resize, zoom, transforms and fullscreen. The element
+ * and its root come drawn (shell.ts drawShell); this gives them their behaviour. Keyboard
  * events typed inside stop at the host, so the page's shortcuts do not fire. destroy() removes
  * the element and every listener (all registered with one AbortSignal).
  */
 export class OverlayHost {
-  readonly el: HTMLElement;
   readonly root: ShadowRoot;
   private readonly ac = new AbortController();
   private readonly resize: ResizeObserver;
@@ -17,22 +15,12 @@ export class OverlayHost {
   private onPlace: (() => void) | null = null;
   private onKey: ((e: KeyboardEvent) => void) | null = null;
 
-  constructor(readonly video: HTMLVideoElement) {
+  constructor(
+    readonly video: HTMLVideoElement,
+    readonly el: HTMLElement,
+  ) {
     const doc = video.ownerDocument;
-    this.el = doc.createElement(HOST_TAG);
-    forceStyle(this.el, {
-      all: 'initial',
-      position: 'fixed',
-      'z-index': '2147483647',
-      display: 'block',
-      margin: '0',
-      padding: '0',
-      border: '0',
-      inset: 'auto',
-      overflow: 'visible',
-      background: 'transparent',
-    });
-    this.root = this.el.attachShadow({ mode: 'open' });
+    this.root = el.shadowRoot!;
     const signal = this.ac.signal;
     // Keys typed inside the overlay are handled here, at the window in the capture phase, and then
     // stopped: no page listener registered after this one (capturing or bubbling, at any element)

@@ -1,6 +1,6 @@
 import { Chooser } from './chooser';
 import { MeasureSession } from './session';
-import { dropShell, takeShell } from './shell';
+import { dropShell } from './shell';
 import { findVideos, foreignFrameOrigins } from './videos';
 
 /*
@@ -22,7 +22,7 @@ function mount(reg: Registry, video: HTMLVideoElement, index: number): void {
     reg.sessions.get(video)!.focus();
     return;
   }
-  reg.sessions.set(video, new MeasureSession(video, index, (s) => reg.sessions.delete(s.video), takeShell(video)));
+  reg.sessions.set(video, new MeasureSession(video, index, (s) => reg.sessions.delete(s.video)));
 }
 
 function run(this: Registry): void {

@@ -1,12 +1,9 @@
 import type { MarkKind } from '../../src/case/schema';
 import { message } from '../shared/i18n';
-import { h, svg } from './dom';
-import { OVERLAY_CSS } from './styles';
 
 /*
- * The overlay's elements, built without behaviour: the first stage draws them the moment the user
- * calls the overlay up, and the session (session.ts) wires these same elements once the rest of the
- * overlay has loaded. Nothing here reads layout or reaches the extension beyond its message table.
+ * The overlay's tools and the panel's elements. The shell (shell.ts) draws them without behaviour;
+ * the session (session.ts) finds them here and wires them.
  */
 export interface ToolDef {
   kind: MarkKind;
@@ -41,34 +38,29 @@ export interface PanelParts {
   panel: HTMLDivElement;
 }
 
-/** Appends the stylesheet, the measuring surface, the magnifier and the panel to the host's shadow root. */
-export function buildPanel(root: ShadowRoot): PanelParts {
-  const layer = svg('svg', { 'aria-hidden': 'true' }) as SVGSVGElement;
-  const surface = h('div', { class: 'surface', tabindex: 0, role: 'application', 'aria-label': message('ovlSurfaceLabel') });
-  surface.append(layer);
-  const magCanvas = h('canvas', { width: 32, height: 32 });
-  const magnifier = h('div', { class: 'magnifier', 'aria-hidden': 'true' }, magCanvas, h('div', { class: 'cross-h' }), h('div', { class: 'cross-v' }));
-
-  const tools = h('div', { class: 'row tools', role: 'toolbar', 'aria-label': message('ovlToolsLabel') });
+/**
+ * The panel's elements inside a shell's shadow root (drawn by shell.ts drawShell), or null when
+ * any is missing: the page may have reached into the open root between the two stages.
+ */
+export function panelParts(root: ShadowRoot): PanelParts | null {
+  const q = <E extends Element>(sel: string) => root.querySelector<E>(sel);
   const toolButtons = new Map<MarkKind, HTMLButtonElement>();
   for (const t of TOOLS) {
-    const b = h('button', { type: 'button', 'aria-pressed': t.kind === FIRST_TOOL ? 'true' : 'false', title: message('ovlToolTitle', [t.hint, t.key]), 'data-kind': t.kind }, `${t.key} ${t.label}`);
-    toolButtons.set(t.kind, b);
-    tools.append(b);
+    const b = q<HTMLButtonElement>(`.tools button[data-kind="${t.kind}"]`);
+    if (b) toolButtons.set(t.kind, b);
   }
-  const dimension = h(
-    'select',
-    { 'aria-label': message('ovlDimensionLabel') },
-    h('option', { value: 'wingspan' }, message('ovlDimensionWingspan')),
-    h('option', { value: 'length' }, message('ovlDimensionLength')),
-  );
-  const close = h('button', { type: 'button', class: 'close', title: message('ovlCloseTitle') }, message('ovlClose'));
-  tools.append(dimension, close);
-
-  const readout = h('div', { class: 'readout', 'data-testid': 'readout' });
-  const notice = h('div', { class: 'notice', 'data-testid': 'notice' });
-  const live = h('div', { class: 'sr', 'aria-live': 'polite', 'data-testid': 'live' });
-  const panel = h('div', { class: 'panel', role: 'dialog', 'aria-label': message('ovlPanelLabel') }, tools, readout, notice, h('div', { class: 'caution' }, message('ovlCaution')), live);
-  root.append(h('style', {}, OVERLAY_CSS), surface, magnifier, panel);
-  return { surface, layer, magnifier, magCanvas, toolButtons, dimension, close, readout, notice, live, panel };
+  const parts = {
+    surface: q<HTMLDivElement>('.surface'),
+    layer: q<SVGSVGElement>('.surface > svg'),
+    magnifier: q<HTMLDivElement>('.magnifier'),
+    magCanvas: q<HTMLCanvasElement>('.magnifier > canvas'),
+    dimension: q<HTMLSelectElement>('.tools select'),
+    close: q<HTMLButtonElement>('.tools .close'),
+    readout: q<HTMLDivElement>('.panel > .readout'),
+    notice: q<HTMLDivElement>('.panel > .notice'),
+    live: q<HTMLDivElement>('.panel > .sr'),
+    panel: q<HTMLDivElement>('.panel'),
+  };
+  if (toolButtons.size !== TOOLS.length || Object.values(parts).some((p) => !p)) return null;
+  return { ...(parts as { [K in keyof typeof parts]: NonNullable<(typeof parts)[K]> }), toolButtons };
 }

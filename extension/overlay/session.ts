@@ -14,8 +14,9 @@ import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './f
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
-import { buildPanel, FIRST_TOOL, TOOLS } from './panel';
-import type { Shell } from './shell';
+import { FIRST_TOOL, panelParts, TOOLS } from './panel';
+import { drawShell, shellText, takeShell } from './shell';
+import { OVERLAY_CSS } from './styles';
 
 /** Until a snap says better (common practice: about the width of an anti-aliased edge). */
 const DEFAULT_EDGE_SIGMA_PX = 0.7;
@@ -78,11 +79,17 @@ export class MeasureSession {
     readonly video: HTMLVideoElement,
     private readonly index: number,
     private readonly onClosed: (s: MeasureSession) => void,
-    shell: Shell | null = null,
   ) {
     // the first stage may have drawn the host and panel already: this session wires those elements
-    this.host = shell?.host ?? new OverlayHost(video);
-    const parts = shell?.parts ?? buildPanel(this.host.root);
+    let el = takeShell(video);
+    let parts = el?.shadowRoot ? panelParts(el.shadowRoot) : null;
+    if (!el || !parts) {
+      el?.remove();
+      el = drawShell(video, shellText(), OVERLAY_CSS);
+      parts = el?.shadowRoot ? panelParts(el.shadowRoot) : null;
+      if (!el || !parts) throw new Error('the overlay could not draw its panel on this page');
+    }
+    this.host = new OverlayHost(video, el);
     this.pixels = new FramePixels(
       video,
       () => this.currentMapping(),

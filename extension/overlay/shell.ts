@@ -1,39 +1,126 @@
-import { OverlayHost } from './host';
-import { buildPanel, type PanelParts } from './panel';
+import { message } from '../shared/i18n';
+import { FIRST_TOOL, TOOLS } from './panel';
 
 /*
- * What the first stage drew, handed to the session: the host over the video and the panel's
- * elements. Both stages run in the page's one isolated world for this extension, so a symbol from
- * the global registry reaches across the two scripts.
+ * The overlay's shell: the host element over a video and the panel inside its shadow root, drawn
+ * without behaviour. Calling the overlay up runs drawShell in the page at once, before the rest
+ * of the overlay has even been read (extension/shared/inject.ts); the session then adopts these
+ * same elements and wires them (session.ts). With several videos, frames, fullscreen or an overlay
+ * already up, the first stage draws nothing and the session draws the shell itself, with this
+ * same function.
  */
-export interface Shell {
-  video: HTMLVideoElement;
-  host: OverlayHost;
-  parts: PanelParts;
+
+export const HOST_TAG = 'clip-caliper-overlay';
+
+/** Everything the shell shows, read from the message table by whoever calls drawShell. */
+export interface ShellText {
+  surface: string;
+  toolbar: string;
+  tools: { kind: string; key: string; label: string; title: string; first: boolean }[];
+  dimension: string;
+  wingspan: string;
+  length: string;
+  close: string;
+  closeTitle: string;
+  panel: string;
+  caution: string;
 }
 
-const SHELL = Symbol.for('clip-caliper.overlay-shell');
-const g = globalThis as unknown as Record<symbol, Shell | undefined>;
-
-/** Draws the host and the panel over the video, to be taken by the session that follows. */
-export function drawShell(video: HTMLVideoElement): void {
-  if (g[SHELL]) return;
-  const host = new OverlayHost(video);
-  g[SHELL] = { video, host, parts: buildPanel(host.root) };
+export function shellText(): ShellText {
+  return {
+    surface: message('ovlSurfaceLabel'),
+    toolbar: message('ovlToolsLabel'),
+    tools: TOOLS.map((t) => ({ kind: t.kind, key: t.key, label: t.label, title: message('ovlToolTitle', [t.hint, t.key]), first: t.kind === FIRST_TOOL })),
+    dimension: message('ovlDimensionLabel'),
+    wingspan: message('ovlDimensionWingspan'),
+    length: message('ovlDimensionLength'),
+    close: message('ovlClose'),
+    closeTitle: message('ovlCloseTitle'),
+    panel: message('ovlPanelLabel'),
+    caution: message('ovlCaution'),
+  };
 }
 
-/** The shell drawn for this video, once; a shell drawn for another video is removed. */
-export function takeShell(video: HTMLVideoElement): Shell | null {
-  const s = g[SHELL];
-  g[SHELL] = undefined;
-  if (!s) return null;
-  if (s.video === video) return s;
-  s.host.destroy();
-  return null;
+/**
+ * Draws the shell over `video` and returns its host, or with `video` null (the first stage) over
+ * the only video of a page without frames, fullscreen or an overlay already up; otherwise nothing.
+ *
+ * It must stay self-contained, using nothing but its arguments and the page's globals: the
+ * scripting API sends its source text into the page's own world, where calling the overlay up
+ * costs the least (no extension world to create, no message table to load, so the panel is drawn
+ * in a few milliseconds). It carries nothing private, only the panel's strings and stylesheet, and
+ * builds with createElement, never HTML strings, which pages enforcing Trusted Types refuse. The
+ * session that adopts the elements checks them again (panel.ts panelParts), so a page that
+ * interfered gets a fresh shell rather than its own.
+ */
+export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string): HTMLElement | null {
+  const tag = 'clip-caliper-overlay';
+  try {
+    let target = video;
+    if (!target) {
+      const videos = document.getElementsByTagName('video');
+      if (videos.length !== 1 || document.fullscreenElement || document.querySelector(`${tag}, iframe, frame`)) return null;
+      target = videos[0]!;
+    }
+    const doc = target.ownerDocument;
+    const make = (name: string, attrs: Record<string, string>, ...children: (Node | string)[]): HTMLElement => {
+      const el = doc.createElement(name);
+      for (const k in attrs) el.setAttribute(k, attrs[k]!);
+      el.append(...children);
+      return el;
+    };
+    const r = target.getBoundingClientRect();
+    const host = doc.createElement(tag);
+    // inline and important: a page rule like `* { all: unset !important }` cannot beat them
+    host.setAttribute(
+      'style',
+      'all:initial!important;position:fixed!important;z-index:2147483647!important;display:block!important;' +
+        'margin:0!important;padding:0!important;border:0!important;inset:auto!important;overflow:visible!important;' +
+        `background:transparent!important;left:${r.left}px!important;top:${r.top}px!important;width:${r.width}px!important;height:${r.height}px!important`,
+    );
+    // marks a first stage's shell for the session to take (takeShell), or to drop when none does
+    if (!video) host.setAttribute('data-shell', '');
+    const root = host.attachShadow({ mode: 'open' });
+    const style = doc.createElement('style');
+    style.textContent = css;
+    const surface = make('div', { class: 'surface', tabindex: '0', role: 'application', 'aria-label': text.surface }, doc.createElementNS('http://www.w3.org/2000/svg', 'svg'));
+    surface.firstElementChild!.setAttribute('aria-hidden', 'true');
+    const canvas = make('canvas', { width: '32', height: '32' });
+    const magnifier = make('div', { class: 'magnifier', 'aria-hidden': 'true' }, canvas, make('div', { class: 'cross-h' }), make('div', { class: 'cross-v' }));
+    const tools = make('div', { class: 'row tools', role: 'toolbar', 'aria-label': text.toolbar });
+    for (const t of text.tools) {
+      tools.append(make('button', { type: 'button', 'aria-pressed': String(t.first), title: t.title, 'data-kind': t.kind }, `${t.key} ${t.label}`));
+    }
+    tools.append(
+      make('select', { 'aria-label': text.dimension }, make('option', { value: 'wingspan' }, text.wingspan), make('option', { value: 'length' }, text.length)),
+      make('button', { type: 'button', class: 'close', title: text.closeTitle }, text.close),
+    );
+    const panel = make(
+      'div',
+      { class: 'panel', role: 'dialog', 'aria-label': text.panel },
+      tools,
+      make('div', { class: 'readout', 'data-testid': 'readout' }),
+      make('div', { class: 'notice', 'data-testid': 'notice' }),
+      make('div', { class: 'caution' }, text.caution),
+      make('div', { class: 'sr', 'aria-live': 'polite', 'data-testid': 'live' }),
+    );
+    root.append(style, surface, magnifier, panel);
+    doc.documentElement.appendChild(host);
+    return host;
+  } catch {
+    // a page that broke the DOM's own methods: the session draws the shell after all
+    return null;
+  }
+}
+
+/** The shell the first stage drew in this video's document, taken once by the session. */
+export function takeShell(video: HTMLVideoElement): HTMLElement | null {
+  const el = video.ownerDocument.querySelector<HTMLElement>(`${HOST_TAG}[data-shell]`);
+  el?.removeAttribute('data-shell');
+  return el;
 }
 
 /** Removes a shell nobody took (the page changed between the two stages). */
-export function dropShell(): void {
-  g[SHELL]?.host.destroy();
-  g[SHELL] = undefined;
+export function dropShell(doc: Document = document): void {
+  for (const el of doc.querySelectorAll(`${HOST_TAG}[data-shell]`)) el.remove();
 }

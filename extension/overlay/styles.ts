@@ -31,7 +31,7 @@ select { font: inherit; color: var(--fg); background: transparent; border: 1px s
 .readout .big { font-weight: 600; }
 .muted { color: var(--muted); }
 .notice { color: var(--warn); margin-top: 3px; }
-.caution { color: var(--muted); font-size: 11px; margin-top: 3px; }
+.caution { color: var(--muted); margin-top: 3px; }
 .magnifier {
   position: absolute; width: 128px; height: 128px; border: 2px solid #fff; border-radius: 50%;
   box-shadow: 0 0 0 1px #000, 0 2px 8px rgba(0,0,0,.4); pointer-events: none; overflow: hidden; display: none;

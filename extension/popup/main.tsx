@@ -2,6 +2,7 @@ import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
 import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
+import { firstStage, injectOverlay } from '../shared/call-up';
 import type { CaseView as CaseViewComponent } from './case-view';
 import { LogView, isLogRoute } from './log-view';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
@@ -17,6 +18,10 @@ function Cautions() {
   );
 }
 
+// The e2e build lets the browser tests and the bench call the overlay up exactly as the button
+// below does (nothing can click the toolbar in a test); the shipped build has no such door.
+if (import.meta.env.MODE === 'e2e') (globalThis as { clipCaliperE2E?: unknown }).clipCaliperE2E = { callUp: injectOverlay, firstStage };
+
 function MeasureButton() {
   const [error, setError] = useState<string | null>(null);
   const measure = async () => {
@@ -24,7 +29,7 @@ function MeasureButton() {
     try {
       const [tab] = await browser.tabs.query({ active: true, currentWindow: true });
       if (tab?.id === undefined) throw new Error('no active tab');
-      await send('overlay/inject', { tabId: tab.id });
+      await injectOverlay(tab.id);
       window.close();
     } catch (e) {
       setError(t('popupInjectFailed', (e as Error).message));

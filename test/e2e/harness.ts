@@ -99,6 +99,15 @@ export async function injectOverlay(app: Loaded, url: string): Promise<void> {
   await sendAsPopup(app, 'overlay/inject', { tabId: await tabIdFor(app, url) });
 }
 
+/**
+ * Calls the overlay up the way the popup's button does: straight from the extension page, without
+ * the background (the e2e build exposes the popup's own call, extension/popup/main.tsx).
+ */
+export async function callUpAsPopup(app: Loaded, tabId: number): Promise<void> {
+  const page = await extensionPage(app);
+  await page.evaluate((id) => (globalThis as unknown as { clipCaliperE2E: { callUp(tabId: number): Promise<boolean> } }).clipCaliperE2E.callUp(id), tabId);
+}
+
 /** Every stored case (the extension's local storage, read from its own page). */
 export async function storedCases(app: Loaded): Promise<Record<string, unknown>> {
   const page = await extensionPage(app);

@@ -119,8 +119,8 @@ describe('the overlay on two fixture pages, light and dark', () => {
       const app = await launchWithExtension(E2E_DIST, { colorScheme: scheme });
       apps.push(app);
       for (const [name, path, size] of [
-        ['plain', '/plain.html', { width: 700, height: 560 }],
-        ['contain', '/contain.html', { width: 840, height: 520 }],
+        ['plain', '/plain.html', { width: 700, height: 680 }],
+        ['contain', '/contain.html', { width: 840, height: 600 }],
       ] as const) {
         const page = await app.context.newPage();
         await page.setViewportSize(size);
@@ -144,6 +144,10 @@ describe('the overlay on two fixture pages, light and dark', () => {
         await page.mouse.move(box.x + ox + f.x2 * k, box.y + oy + f.y2 * k, { steps: 5 });
         await page.mouse.up();
         await overlayReady(page, 1);
+        // the whole panel is in the picture
+        const panel = (await page.locator('clip-caliper-overlay .panel').boundingBox())!;
+        expect(panel.y + panel.height).toBeLessThanOrEqual(size.height);
+        expect(panel.x + panel.width).toBeLessThanOrEqual(size.width);
         await shoot(page, `overlay-${name}-${scheme}`);
         await page.close();
       }

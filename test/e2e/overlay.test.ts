@@ -194,12 +194,12 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
-  it('the panel the first stage draws is the one the session then wires: one host, never replaced', async () => {
-    const page = await open('/plain.html?two-stage');
-    await videoReady(page);
-    // remember the first host element that appears, and count every one ever added
-    // the first stage marks its shell (data-shell) until the session takes it: seen when it is added,
-    // the mark says the first stage drew it, not the session
+  /*
+   * Calls the overlay up as the popup's button does, noting every host element ever added and
+   * whether the first stage drew it: its shell carries data-shell until the session takes it, so
+   * the mark, seen as the host is added, tells the page's own world drew it and not the session.
+   */
+  async function callUpWatchingHosts(page: Page): Promise<boolean[]> {
     await page.evaluate(`(() => {
       window.__hosts = [];
       window.__byFirstStage = [];
@@ -210,69 +210,51 @@ describe('calling the overlay up', () => {
         }
       }).observe(document.documentElement, { childList: true, subtree: true });
     })()`);
-    await callUpAsPopup(app, await tabIdFor(app, page.url()));
+    await callUpAsPopup(app, await tabIdOf(page.url()));
     await ready(page);
+    return (await page.evaluate(`window.__byFirstStage`)) as boolean[];
+  }
+
+  /** Clicks a tool's button and reads back whether it is now the chosen one. */
+  async function clickTool(page: Page, kind: string): Promise<string | null> {
+    const button = page.locator(`clip-caliper-overlay button[data-kind=${kind}]`);
+    await button.click();
+    return button.getAttribute('aria-pressed');
+  }
+
+  /** Runs `attempt` in the page's own world: 'refused' when it throws. */
+  const inPageWorld = (page: Page, attempt: string) => page.evaluate(`(() => { try { ${attempt}; return 'done'; } catch { return 'refused'; } })()`);
+
+  it('the panel the first stage draws is the one the session then wires: one host, never replaced', async () => {
+    const page = await open('/plain.html?two-stage');
+    await videoReady(page);
+    expect(await callUpWatchingHosts(page)).toEqual([true]);
     await expect.poll(() => page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-ready')`)).toBe(true);
-    expect(await page.evaluate(`window.__hosts.length`)).toBe(1);
-    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]);
     expect(await page.evaluate(`window.__hosts[0] === document.querySelector('clip-caliper-overlay')`)).toBe(true);
     expect(await page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-shell')`)).toBe(false);
     // and its buttons work: the second tool, chosen by a click on the first stage's button
-    await page.locator('clip-caliper-overlay button[data-kind=landmark-span]').click();
-    expect(await page.locator('clip-caliper-overlay button[data-kind=landmark-span]').getAttribute('aria-pressed')).toBe('true');
+    expect(await clickTool(page, 'landmark-span')).toBe('true');
     await page.close();
   });
-
-  // which stage drew the host: the first stage marks its shell (data-shell) until the session takes it
-  async function watchHosts(page: Page): Promise<void> {
-    await page.evaluate(`(() => {
-      window.__byFirstStage = [];
-      new MutationObserver((records) => {
-        for (const r of records) for (const n of r.addedNodes) if (n.nodeName === 'CLIP-CALIPER-OVERLAY') window.__byFirstStage.push(n.hasAttribute('data-shell'));
-      }).observe(document.documentElement, { childList: true, subtree: true });
-    })()`);
-  }
 
   it('draws its first stage on a page that enforces Trusted Types (no HTML strings)', async () => {
     const page = await open('/trusted-types.html');
     await videoReady(page);
     // the fixture really enforces them: an HTML string from the page's world is refused
-    expect(await page.evaluate(() => {
-      try {
-        document.body.insertAdjacentHTML('beforeend', '<b>x</b>');
-        return 'accepted';
-      } catch (e) {
-        return (e as Error).name;
-      }
-    })).toBe('TypeError');
-    await watchHosts(page);
-    await callUpAsPopup(app, await tabIdOf(page.url()));
-    await ready(page);
-    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]);
-    await page.locator('clip-caliper-overlay button[data-kind=lane-dash]').click();
-    expect(await page.locator('clip-caliper-overlay button[data-kind=lane-dash]').getAttribute('aria-pressed')).toBe('true');
+    expect(await inPageWorld(page, `document.body.insertAdjacentHTML('beforeend', '<b>x</b>')`)).toBe('refused');
+    expect(await callUpWatchingHosts(page)).toEqual([true]);
+    expect(await clickTool(page, 'lane-dash')).toBe('true');
     await page.close();
   });
 
   it('comes up all the same when the page has broken the DOM methods the first stage uses', async () => {
     const page = await open('/broken-dom.html');
     await videoReady(page);
-    expect(await page.evaluate(() => {
-      try {
-        document.createElement('div').attachShadow({ mode: 'open' });
-        return 'works';
-      } catch {
-        return 'broken';
-      }
-    })).toBe('broken');
-    await watchHosts(page);
-    await callUpAsPopup(app, await tabIdOf(page.url()));
-    await ready(page);
-    // the page's world could not draw it; the overlay's own world drew it once, and it works
-    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([false]);
+    expect(await inPageWorld(page, `document.createElement('div').attachShadow({ mode: 'open' })`)).toBe('refused');
+    // the page's world could not draw it; the overlay's own world drew it, once, and it works
+    expect(await callUpWatchingHosts(page)).toEqual([false]);
     expect(await overlays(page)).toBe(1);
-    await page.locator('clip-caliper-overlay button[data-kind=landmark-span]').click();
-    expect(await page.locator('clip-caliper-overlay button[data-kind=landmark-span]').getAttribute('aria-pressed')).toBe('true');
+    expect(await clickTool(page, 'landmark-span')).toBe('true');
     await page.close();
   });
 

@@ -1,4 +1,5 @@
 import { forceStyle } from './dom';
+import { containsAcrossShadows, fullscreenTarget } from './videos';
 
 /**
  * One host element per measured video: a shadow root the page's CSS cannot reach, placed over the
@@ -80,16 +81,20 @@ export class OverlayHost {
 
   /**
    * Inside the fullscreen element when a container of the video is fullscreen; in the top layer (a
-   * manual popover shown after the video went fullscreen, so above it) when the video itself is.
+   * manual popover shown after the video went fullscreen, so above it) when the video itself is,
+   * or a component around it.
    */
   private attach(): void {
     const doc = this.video.ownerDocument;
-    const fs = doc.fullscreenElement;
-    const parent = fs && fs !== this.video && fs.contains(this.video) ? fs : doc.documentElement;
+    const fs = fullscreenTarget(doc);
+    // a fullscreen container shows the host as its child, unless the container is a component
+    // (it shows only what its shadow root slots) or holds the video inside one: the top layer then
+    const asChild = !!fs && fs !== this.video && !fs.shadowRoot && fs.contains(this.video);
+    const parent = asChild ? fs : doc.documentElement;
     // read the video's box before adding anything: a read after would lay the page out again
     this.place(true);
     if (this.el.parentNode !== parent) parent.appendChild(this.el);
-    const wantTop = fs === this.video;
+    const wantTop = !!fs && !asChild && containsAcrossShadows(fs, this.video);
     if (wantTop) {
       this.el.setAttribute('popover', 'manual');
       try {

@@ -17,6 +17,7 @@ import { liveFigures } from './readout';
 import { FIRST_TOOL, panelParts, TOOLS } from './panel';
 import { drawShell, shellText, takeShell } from './shell';
 import { OVERLAY_CSS } from './styles';
+import { shadowRootsAround } from './videos';
 
 /** Until a snap says better (common practice: about the width of an anti-aliased edge). */
 const DEFAULT_EDGE_SIGMA_PX = 0.7;
@@ -192,11 +193,12 @@ export class MeasureSession {
     };
     void loadSettings().then(useSettings, () => undefined);
     signal.addEventListener('abort', onSettingsChanged(useSettings));
-    // a video removed from the page ends its session
+    // a video removed from the page ends its session; removed inside a component's shadow root,
+    // only that root sees it
     const mo = new MutationObserver(() => {
       if (!v.isConnected) void this.close();
     });
-    mo.observe(v.ownerDocument.documentElement, { childList: true, subtree: true });
+    for (const root of [v.ownerDocument.documentElement, ...shadowRootsAround(v)]) mo.observe(root, { childList: true, subtree: true });
     signal.addEventListener('abort', () => mo.disconnect());
   }
 

@@ -1,11 +1,54 @@
-/** Every video in this document and its same-origin frames, in document order. */
+/**
+ * Every video in this document, inside the open shadow roots of its components and in its
+ * same-origin frames, in document order. A closed shadow root is the component's own and stays
+ * shut: a video there cannot be found.
+ */
 export function findVideos(doc: Document = document): HTMLVideoElement[] {
-  const found = [...doc.querySelectorAll('video')];
+  const found: HTMLVideoElement[] = [];
+  collectVideos(doc, found);
   for (const frame of doc.querySelectorAll('iframe, frame')) {
     const inner = sameOriginDocument(frame as HTMLIFrameElement);
     if (inner) found.push(...findVideos(inner));
   }
   return found;
+}
+
+// querySelectorAll does not enter shadow roots: one walk over the elements finds both the videos
+// and the roots to enter, in document order
+function collectVideos(root: Document | ShadowRoot, out: HTMLVideoElement[]): void {
+  const doc = root.nodeType === Node.DOCUMENT_NODE ? (root as Document) : root.ownerDocument!;
+  const walk = doc.createTreeWalker(root, NodeFilter.SHOW_ELEMENT);
+  for (let n = walk.nextNode(); n; n = walk.nextNode()) {
+    const el = n as Element;
+    if (el.localName === 'video') out.push(el as HTMLVideoElement);
+    if (el.shadowRoot) collectVideos(el.shadowRoot, out);
+  }
+}
+
+// by node type, not instanceof: a same-origin frame's nodes come from another realm
+const isShadowRoot = (n: Node): n is ShadowRoot => n.nodeType === Node.DOCUMENT_FRAGMENT_NODE && 'host' in n;
+
+/** The shadow roots between a node and its document, innermost first (none for light DOM). */
+export function shadowRootsAround(node: Node): ShadowRoot[] {
+  const roots: ShadowRoot[] = [];
+  for (let r = node.getRootNode(); isShadowRoot(r); r = r.host.getRootNode()) roots.push(r);
+  return roots;
+}
+
+/** Whether `node` is inside `ancestor`, across shadow roots (Node.contains stops at them). */
+export function containsAcrossShadows(ancestor: Node, node: Node): boolean {
+  for (let n: Node | null = node; n; n = isShadowRoot(n) ? n.host : n.parentNode) if (n === ancestor) return true;
+  return false;
+}
+
+/**
+ * The element really shown fullscreen: the document names a component's host for an element
+ * inside its shadow root, and that root names the element itself.
+ */
+export function fullscreenTarget(doc: Document): Element | null {
+  let fs = doc.fullscreenElement;
+  while (fs?.shadowRoot?.fullscreenElement) fs = fs.shadowRoot.fullscreenElement;
+  return fs;
 }
 
 /** Origins of frames whose content this page may not read (a video there needs that site's permission). */

@@ -133,10 +133,19 @@ export async function stopServiceWorker(app: Loaded): Promise<void> {
 
 type PageOrFrame = import('playwright-core').Page | import('playwright-core').Frame;
 
-/** Waits until the page's video (or the one matching `selector`) has its first frame. */
+/** Waits until the page's video (or the one matching `selector`) has its first frame; open shadow roots are searched too. */
 export async function videoReady(frame: PageOrFrame, selector = 'video'): Promise<void> {
   await frame.waitForFunction((s) => {
-    const v = document.querySelector(s) as HTMLVideoElement | null;
+    const find = (root: Document | ShadowRoot): HTMLVideoElement | null => {
+      const here = root.querySelector(s) as HTMLVideoElement | null;
+      if (here) return here;
+      for (const el of root.querySelectorAll('*')) {
+        const inner = el.shadowRoot && find(el.shadowRoot);
+        if (inner) return inner;
+      }
+      return null;
+    };
+    const v = find(document);
     return !!v && v.readyState >= 2 && v.videoWidth > 0;
   }, selector);
 }

@@ -290,6 +290,8 @@ describe('CSS pixels to intrinsic pixels', () => {
     { path: '/cover.html', toCss: (p, b) => ({ x: b.x + 0.3 * (400 - 6400 / 9) + (p.x * 10) / 9, y: b.y + (p.y * 10) / 9 }) },
     // 640x360 content box with 6 px border and 4 px padding, all scaled by 0.75 from the top-left
     { path: '/scaled.html', toCss: (p, b) => ({ x: b.x + 10 * 0.75 + p.x * 0.75, y: b.y + 10 * 0.75 + p.y * 0.75 }) },
+    // inside a component's open shadow root, 640x360 at 1:1 (the locator reaches into open roots)
+    { path: '/component.html', toCss: (p, b) => ({ x: b.x + p.x, y: b.y + p.y }) },
   ];
 
   for (const { path, toCss } of pages) {
@@ -386,6 +388,13 @@ describe('keyboard, announcements and page changes', () => {
     await page.close();
   });
 
+  it('ends its session when a component removes the video from its shadow root', async () => {
+    const page = await withOverlay('/component.html?remove');
+    await page.evaluate(() => document.querySelector('invented-player')!.shadowRoot!.querySelector('video')!.remove());
+    await expect.poll(() => overlays(page)).toBe(0);
+    await page.close();
+  });
+
   it('ends its session when the page removes the video', async () => {
     const page = await withOverlay('/plain.html?remove');
     await page.evaluate(() => document.querySelector('video')!.remove());
@@ -418,6 +427,20 @@ describe('fullscreen and pixel density', () => {
     await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.id)).toBe('box');
     await page.evaluate(() => document.exitFullscreen());
     await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.tagName)).toBe('HTML');
+    await page.close();
+  });
+
+  it('follows a component that holds the video in its shadow root into fullscreen, in the top layer', async () => {
+    const page = await withOverlay('/component.html?fullscreen');
+    await page.click('#fs-player');
+    await expect.poll(() => page.evaluate(() => document.fullscreenElement?.localName)).toBe('invented-player');
+    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')!.matches(':popover-open'))).toBe(true);
+    const host = (await page.locator('clip-caliper-overlay').boundingBox())!;
+    const video = (await page.locator('invented-player video').boundingBox())!;
+    expect(Math.abs(host.x - video.x)).toBeLessThan(1);
+    expect(Math.abs(host.width - video.width)).toBeLessThan(1);
+    await page.evaluate(() => document.exitFullscreen());
+    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')!.matches(':popover-open'))).toBe(false);
     await page.close();
   });
 

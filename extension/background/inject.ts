@@ -37,7 +37,15 @@ export async function foreignFrameOrigins(tabId: number): Promise<string[]> {
 export async function injectIntoOrigin(tabId: number, origin: string): Promise<number> {
   const probes = await browser.scripting.executeScript({
     target: { tabId, allFrames: true },
-    func: () => ({ origin: location.origin, videos: document.querySelectorAll('video').length }),
+    // self-contained (it runs in each frame): counts videos in open shadow roots too, as the overlay finds them
+    func: () => {
+      const count = (root: Document | ShadowRoot): number => {
+        let n = root.querySelectorAll('video').length;
+        for (const el of root.querySelectorAll('*')) if (el.shadowRoot) n += count(el.shadowRoot);
+        return n;
+      };
+      return { origin: location.origin, videos: count(document) };
+    },
   });
   const frameIds = probes
     .filter((p) => {

@@ -135,28 +135,30 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
-  it('measures a video in a frame from another origin once that site is allowed', async () => {
-    // the e2e build holds the local origins already, standing in for the user's grant in the popup
-    const page = await open('/frame-cross.html');
-    const frame = await (async () => {
-      for (let i = 0; i < 50; i++) {
-        const f = page.frames().find((x) => x.url().startsWith(`http://localhost:${server.port}/plain.html`));
-        if (f) return f;
-        await page.waitForTimeout(100);
-      }
-      throw new Error('frame did not load');
-    })();
-    await videoReady(frame);
-    const extTab = await page.evaluate(() => location.href);
-    const { origins } = (await sendAsPopup(app, 'frames/foreign', { tabId: await tabIdOf(extTab) })) as { origins: string[] };
-    expect(origins).toEqual([`http://localhost:${server.port}`]);
-    const { frames } = (await sendAsPopup(app, 'overlay/inject-origin', { tabId: await tabIdOf(extTab), origin: origins[0] })) as { frames: number };
-    expect(frames).toBe(1);
-    await ready(frame);
-    expect(await overlays(frame)).toBe(1);
-    expect(await overlays(page)).toBe(0);
-    await page.close();
-  });
+  for (const inner of ['plain', 'component'] as const) {
+    it(`measures a video in a frame from another origin once that site is allowed (${inner === 'plain' ? 'a plain video' : "inside a component's shadow root"})`, async () => {
+      // the e2e build holds the local origins already, standing in for the user's grant in the popup
+      const page = await open(`/frame-cross.html?inner=${inner}`);
+      const frame = await (async () => {
+        for (let i = 0; i < 50; i++) {
+          const f = page.frames().find((x) => x.url().startsWith(`http://localhost:${server.port}/${inner}.html`));
+          if (f) return f;
+          await page.waitForTimeout(100);
+        }
+        throw new Error('frame did not load');
+      })();
+      await videoReady(frame);
+      const extTab = await page.evaluate(() => location.href);
+      const { origins } = (await sendAsPopup(app, 'frames/foreign', { tabId: await tabIdOf(extTab) })) as { origins: string[] };
+      expect(origins).toEqual([`http://localhost:${server.port}`]);
+      const { frames } = (await sendAsPopup(app, 'overlay/inject-origin', { tabId: await tabIdOf(extTab), origin: origins[0] })) as { frames: number };
+      expect(frames).toBe(1);
+      await ready(frame);
+      expect(await overlays(frame)).toBe(1);
+      expect(await overlays(page)).toBe(0);
+      await page.close();
+    });
+  }
 
   it('still allows marking a live stream, with a notice', async () => {
     const page = await withOverlay('/live.html');

@@ -5,24 +5,32 @@ import { injectOverlay } from '../shared/call-up';
 export async function foreignFrameOrigins(tabId: number): Promise<string[]> {
   const [result] = await browser.scripting.executeScript({
     target: { tabId },
+    // self-contained (it runs in the page): frames inside open shadow roots and inside same-origin
+    // frames count too, as the overlay finds them (overlay/videos.ts)
     func: () => {
       const origins = new Set<string>();
-      for (const f of document.querySelectorAll('iframe, frame')) {
-        const el = f as HTMLIFrameElement;
-        let readable = false;
-        try {
-          readable = !!el.contentDocument;
-        } catch {
-          readable = false;
-        }
-        if (!readable && el.src) {
+      const visit = (root: Document | ShadowRoot, base: string) => {
+        for (const el of root.querySelectorAll('*')) {
+          if (el.shadowRoot) visit(el.shadowRoot, base);
+          if (el.localName !== 'iframe' && el.localName !== 'frame') continue;
+          const f = el as HTMLIFrameElement;
+          let inner: Document | null = null;
           try {
-            origins.add(new URL(el.src, document.baseURI).origin);
+            inner = f.contentDocument;
           } catch {
-            // unnamed
+            inner = null;
+          }
+          if (inner) visit(inner, inner.baseURI);
+          else if (f.src) {
+            try {
+              origins.add(new URL(f.src, base).origin);
+            } catch {
+              // unnamed
+            }
           }
         }
-      }
+      };
+      visit(document, document.baseURI);
       return [...origins];
     },
   });

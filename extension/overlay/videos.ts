@@ -1,27 +1,31 @@
 /**
  * Every video in this document, inside the open shadow roots of its components and in its
- * same-origin frames, in document order. A closed shadow root is the component's own and stays
- * shut: a video there cannot be found.
+ * same-origin frames (wherever they sit), in document order. A closed shadow root is the
+ * component's own and stays shut: a video there cannot be found.
  */
 export function findVideos(doc: Document = document): HTMLVideoElement[] {
   const found: HTMLVideoElement[] = [];
-  collectVideos(doc, found);
-  for (const frame of doc.querySelectorAll('iframe, frame')) {
-    const inner = sameOriginDocument(frame as HTMLIFrameElement);
+  const frames: HTMLIFrameElement[] = [];
+  walkElements(doc, (el) => {
+    if (el.localName === 'video') found.push(el as HTMLVideoElement);
+    else if (el.localName === 'iframe' || el.localName === 'frame') frames.push(el as HTMLIFrameElement);
+  });
+  for (const frame of frames) {
+    const inner = sameOriginDocument(frame);
     if (inner) found.push(...findVideos(inner));
   }
   return found;
 }
 
-// querySelectorAll does not enter shadow roots: one walk over the elements finds both the videos
-// and the roots to enter, in document order
-function collectVideos(root: Document | ShadowRoot, out: HTMLVideoElement[]): void {
+// querySelectorAll does not enter shadow roots: one walk over the elements visits them all and
+// enters every open root on the way, in document order
+function walkElements(root: Document | ShadowRoot, visit: (el: Element) => void): void {
   const doc = root.nodeType === Node.DOCUMENT_NODE ? (root as Document) : root.ownerDocument!;
   const walk = doc.createTreeWalker(root, NodeFilter.SHOW_ELEMENT);
   for (let n = walk.nextNode(); n; n = walk.nextNode()) {
     const el = n as Element;
-    if (el.localName === 'video') out.push(el as HTMLVideoElement);
-    if (el.shadowRoot) collectVideos(el.shadowRoot, out);
+    visit(el);
+    if (el.shadowRoot) walkElements(el.shadowRoot, visit);
   }
 }
 
@@ -54,8 +58,9 @@ export function fullscreenTarget(doc: Document): Element | null {
 /** Origins of frames whose content this page may not read (a video there needs that site's permission). */
 export function foreignFrameOrigins(doc: Document = document): string[] {
   const origins = new Set<string>();
-  for (const frame of doc.querySelectorAll('iframe, frame')) {
-    const f = frame as HTMLIFrameElement;
+  walkElements(doc, (el) => {
+    if (el.localName !== 'iframe' && el.localName !== 'frame') return;
+    const f = el as HTMLIFrameElement;
     const inner = sameOriginDocument(f);
     if (inner) foreignFrameOrigins(inner).forEach((o) => origins.add(o));
     else if (f.src) {
@@ -65,7 +70,7 @@ export function foreignFrameOrigins(doc: Document = document): string[] {
         // not a URL we can name
       }
     }
-  }
+  });
   return [...origins];
 }
 

@@ -135,10 +135,14 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
-  for (const inner of ['plain', 'component'] as const) {
-    it(`measures a video in a frame from another origin once that site is allowed (${inner === 'plain' ? 'a plain video' : "inside a component's shadow root"})`, async () => {
+  for (const { inner, wrap, what } of [
+    { inner: 'plain', wrap: 'none', what: 'a plain video' },
+    { inner: 'component', wrap: 'none', what: "the video inside a component's shadow root" },
+    { inner: 'plain', wrap: 'component', what: "the frame inside a component's shadow root" },
+  ] as const) {
+    it(`measures a video in a frame from another origin once that site is allowed (${what})`, async () => {
       // the e2e build holds the local origins already, standing in for the user's grant in the popup
-      const page = await open(`/frame-cross.html?inner=${inner}`);
+      const page = await open(`/frame-cross.html?inner=${inner}&wrap=${wrap}`);
       const frame = await (async () => {
         for (let i = 0; i < 50; i++) {
           const f = page.frames().find((x) => x.url().startsWith(`http://localhost:${server.port}/${inner}.html`));

@@ -1,7 +1,7 @@
 import { Chooser } from './chooser';
 import { MeasureSession } from './session';
 import { dropShell } from './shell';
-import { findVideos, foreignFrameOrigins } from './videos';
+import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
 
 /*
  * The overlay's entry, injected on demand. Content scripts share one isolated world per page, so a
@@ -56,7 +56,8 @@ function followWhileChoosing(reg: Registry, shown: HTMLVideoElement[]): void {
     reg.chooser = null;
     reg.run();
   });
-  mo.observe(document.documentElement, { childList: true, subtree: true });
+  // a component adding a video to its shadow root changes nothing the document itself sees
+  for (const root of videoContainers()) mo.observe(root, { childList: true, subtree: true });
 }
 
 const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run };

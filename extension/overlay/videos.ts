@@ -17,6 +17,22 @@ export function findVideos(doc: Document = document): HTMLVideoElement[] {
   return found;
 }
 
+/**
+ * Where a video can appear: this document, its same-origin frames' documents and every open
+ * shadow root in them (a MutationObserver on a document does not see into shadow roots).
+ */
+export function videoContainers(doc: Document = document): Node[] {
+  const roots: Node[] = [doc.documentElement];
+  walkElements(doc, (el) => {
+    if (el.shadowRoot) roots.push(el.shadowRoot);
+    if (el.localName === 'iframe' || el.localName === 'frame') {
+      const inner = sameOriginDocument(el as HTMLIFrameElement);
+      if (inner?.documentElement) roots.push(...videoContainers(inner));
+    }
+  });
+  return roots;
+}
+
 // querySelectorAll does not enter shadow roots: one walk over the elements visits them all and
 // enters every open root on the way, in document order
 function walkElements(root: Document | ShadowRoot, visit: (el: Element) => void): void {

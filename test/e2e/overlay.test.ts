@@ -116,6 +116,9 @@ describe('calling the overlay up', () => {
     await expect.poll(() => buttons.count()).toBe(2);
     await page.click('#add');
     await expect.poll(() => buttons.count()).toBe(3);
+    // and when a component adds one inside its shadow root, which the document's own changes do not show
+    await page.click('#add-in-component');
+    await expect.poll(() => buttons.count()).toBe(4);
     await page.close();
   });
 

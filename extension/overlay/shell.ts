@@ -43,7 +43,8 @@ export function shellText(): ShellText {
 
 /**
  * Draws the shell over `video` and returns its host, or with `video` null (the first stage) over
- * the only video of a page without frames, fullscreen or an overlay already up; otherwise nothing.
+ * the only video of a page without frames, fullscreen or an overlay already up, and says whether
+ * it drew.
  *
  * It must stay self-contained, using nothing but its arguments and the page's globals: the
  * scripting API sends its source text into the page's own world, where calling the overlay up
@@ -53,13 +54,15 @@ export function shellText(): ShellText {
  * session that adopts the elements checks them again (panel.ts panelParts), so a page that
  * interfered gets a fresh shell rather than its own.
  */
-export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string): HTMLElement | null {
+export function drawShell(video: null, text: ShellText, css: string): boolean;
+export function drawShell(video: HTMLVideoElement, text: ShellText, css: string): HTMLElement | null;
+export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string): HTMLElement | boolean | null {
   const tag = 'clip-caliper-overlay';
   try {
     let target = video;
     if (!target) {
       const videos = document.getElementsByTagName('video');
-      if (videos.length !== 1 || document.fullscreenElement || document.querySelector(`${tag}, iframe, frame`)) return null;
+      if (videos.length !== 1 || document.fullscreenElement || document.querySelector(`${tag}, iframe, frame`)) return false;
       target = videos[0]!;
     }
     const doc = target.ownerDocument;
@@ -106,11 +109,24 @@ export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: 
     );
     root.append(style, surface, magnifier, panel);
     doc.documentElement.appendChild(host);
-    return host;
+    // the first stage answers whether it drew (its result leaves the page; an element cannot)
+    return video ? host : true;
   } catch {
     // a page that broke the DOM's own methods: the session draws the shell after all
-    return null;
+    return video ? null : false;
   }
+}
+
+/**
+ * Settles once the page has shown its next frame, or after 100 ms (a tab in the background shows
+ * none). Self-contained, as drawShell: it runs in the page, after the first stage, so that the
+ * panel reaches the screen before the overlay proper takes the page's main thread to load.
+ */
+export function afterNextFrame(): Promise<void> {
+  return new Promise((done) => {
+    requestAnimationFrame(() => setTimeout(done, 0));
+    setTimeout(done, 100);
+  });
 }
 
 /** The shell the first stage drew in this video's document, taken once by the session. */

@@ -3,6 +3,7 @@ import { useEffect, useState } from 'preact/hooks';
 import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
 import { firstStage, injectOverlay } from '../shared/call-up';
+import { afterNextFrame } from '../overlay/shell';
 import type { CaseView as CaseViewComponent } from './case-view';
 import { LogView, isLogRoute } from './log-view';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
@@ -20,7 +21,7 @@ function Cautions() {
 
 // The e2e build lets the browser tests and the bench call the overlay up exactly as the button
 // below does (nothing can click the toolbar in a test); the shipped build has no such door.
-if (import.meta.env.MODE === 'e2e') (globalThis as { clipCaliperE2E?: unknown }).clipCaliperE2E = { callUp: injectOverlay, firstStage };
+if (import.meta.env.MODE === 'e2e') (globalThis as { clipCaliperE2E?: unknown }).clipCaliperE2E = { callUp: injectOverlay, firstStage, afterNextFrame };
 
 function MeasureButton() {
   const [error, setError] = useState<string | null>(null);

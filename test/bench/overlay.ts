@@ -52,13 +52,15 @@ function buildBoth(): void {
 async function printBundleSize(extPage: Page): Promise<void> {
   const file = gzipSync(readFileSync(SHIPPED_OVERLAY), { level: 9 }).length;
   const firstText = await extPage.evaluate(() => {
-    const stage = (globalThis as unknown as { clipCaliperE2E: { firstStage(): { func: () => void; args: unknown[] } } }).clipCaliperE2E.firstStage();
-    return String(stage.func) + JSON.stringify(stage.args);
+    const e2e = (globalThis as unknown as { clipCaliperE2E: { firstStage(): { func: () => void; args: unknown[] }; afterNextFrame: () => void } }).clipCaliperE2E;
+    const stage = e2e.firstStage();
+    // and the few bytes that wait for the panel's first frame before the overlay proper is sent
+    return String(stage.func) + JSON.stringify(stage.args) + String(e2e.afterNextFrame);
   });
   const first = gzipSync(Buffer.from(firstText), { level: 9 }).length;
   const gz = file + first;
   console.log(
-    `overlay injected (${SHIPPED_OVERLAY} ${file} B + first stage function and arguments ${first} B, gzip -9): ${gz} B = ${(gz / 1024).toFixed(1)} KB ` +
+    `overlay injected (${SHIPPED_OVERLAY} ${file} B + first stage functions and arguments ${first} B, gzip -9): ${gz} B = ${(gz / 1024).toFixed(1)} KB ` +
       `(target < ${TARGET_GZIP_BYTES / 1024} KB: ${verdict(gz < TARGET_GZIP_BYTES)})`,
   );
 }
@@ -77,6 +79,7 @@ async function openVideoPage(app: Loaded, server: TestServer, path: string): Pro
 interface BenchWindow {
   __benchT0: number;
   __benchInPage: number;
+  __benchPainted: number;
   __benchReady: number;
   __benchFinished: number;
 }
@@ -89,7 +92,7 @@ interface BenchWindow {
  * again each frame. Paint is not included. The empty script stamps performance.now() itself: the
  * isolated world shares the document's time origin, so both stamps are on one clock.
  */
-async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string): Promise<{ inPage: number; drawn: number; finished: number }> {
+async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string): Promise<{ inPage: number; drawn: number; painted: number; finished: number }> {
   const page = await openVideoPage(app, server, `/plain.html?bench-inject-${tag}`);
   // looked up before the clock starts, as for the empty script: finding the tab is not injecting
   const tabId = await tabIdFor(app, page.url());
@@ -97,6 +100,7 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
     const w = window as unknown as BenchWindow;
     w.__benchReady = NaN;
     w.__benchInPage = NaN;
+    w.__benchPainted = NaN;
     w.__benchFinished = NaN;
     const finished = () => {
       if (document.querySelector('clip-caliper-overlay')?.hasAttribute('data-ready')) w.__benchFinished = performance.now();
@@ -115,6 +119,10 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
     const mo = new MutationObserver(() => {
       if (!document.querySelector('clip-caliper-overlay')) return;
       w.__benchInPage = performance.now();
+      // the first frame after the host appeared: its animation-frame callbacks run as it starts,
+      // and its style, layout and paint follow in the same update (a message posted from here
+      // would wait behind any script queued meanwhile, which says nothing of the frame)
+      requestAnimationFrame(() => (w.__benchPainted = performance.now()));
       mo.disconnect();
       poll();
       finished();
@@ -123,10 +131,17 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
     w.__benchT0 = performance.now();
   });
   await callUpAsPopup(app, tabId);
-  await page.waitForFunction(() => !Number.isNaN((window as unknown as BenchWindow).__benchFinished), null, { timeout: 10_000 });
+  await page.waitForFunction(
+    () => {
+      const w = window as unknown as BenchWindow;
+      return !Number.isNaN(w.__benchFinished) && !Number.isNaN(w.__benchPainted);
+    },
+    null,
+    { timeout: 10_000 },
+  );
   const ms = await page.evaluate(() => {
     const w = window as unknown as BenchWindow;
-    return { inPage: w.__benchInPage - w.__benchT0, drawn: w.__benchReady - w.__benchT0, finished: w.__benchFinished - w.__benchT0 };
+    return { inPage: w.__benchInPage - w.__benchT0, drawn: w.__benchReady - w.__benchT0, painted: w.__benchPainted - w.__benchT0, finished: w.__benchFinished - w.__benchT0 };
   });
   await page.close();
   return ms;
@@ -158,11 +173,13 @@ async function printInjection(app: Loaded, server: TestServer, extPage: Page): P
   await emptyInjectionMs(app, server, extPage, 'warm');
   const overlay: number[] = [];
   const inPage: number[] = [];
+  const painted: number[] = [];
   const finished: number[] = [];
   const empty: number[] = [];
   const overlayOnce = async (i: number) => {
-    const { inPage: p, drawn, finished: f } = await overlayInjectionMs(app, server, String(i));
+    const { inPage: p, drawn, painted: pt, finished: f } = await overlayInjectionMs(app, server, String(i));
     inPage.push(p);
+    painted.push(pt);
     overlay.push(drawn);
     finished.push(f);
   };
@@ -185,6 +202,8 @@ async function printInjection(app: Loaded, server: TestServer, extPage: Page): P
   );
   // where the time goes: the first stage's elements are in the page; the rest is their first style and layout
   console.log(`overlay injection to the panel's elements in the page (first stage done, before style and layout): median ${median(inPage).toFixed(1)} ms`);
+  // what the user sees: the frame that shows the panel (frames come every 16.7 ms, so this moves in steps)
+  console.log(`overlay injection to the first frame after the panel appeared (its start; it shows the panel): median ${median(painted).toFixed(1)} ms`);
   // the panel is drawn first; listeners, notices, the stored case and focus follow after its first frame
   console.log(`overlay injection to fully wired (host data-ready, after the first frame): median ${median(finished).toFixed(1)} ms`);
 }

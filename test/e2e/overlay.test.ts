@@ -212,10 +212,13 @@ describe('calling the overlay up', () => {
     await page.evaluate(`(() => {
       window.__hosts = [];
       window.__byFirstStage = [];
+      window.__shownBeforeAdopted = [];
       new MutationObserver((records) => {
         for (const r of records) for (const n of r.addedNodes) if (n.nodeName === 'CLIP-CALIPER-OVERLAY') {
           window.__hosts.push(n);
           window.__byFirstStage.push(n.hasAttribute('data-shell'));
+          // the next frame after it appeared: is it still the first stage's, not yet the session's?
+          requestAnimationFrame(() => window.__shownBeforeAdopted.push(n.hasAttribute('data-shell')));
         }
       }).observe(document.documentElement, { childList: true, subtree: true });
     })()`);
@@ -239,6 +242,8 @@ describe('calling the overlay up', () => {
     await videoReady(page);
     expect(await callUpWatchingHosts(page)).toEqual([true]);
     await expect.poll(() => page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-ready')`)).toBe(true);
+    // the page showed a frame with the first stage's panel before the overlay proper came to take it
+    expect(await page.evaluate(`window.__shownBeforeAdopted`)).toEqual([true]);
     expect(await page.evaluate(`window.__hosts[0] === document.querySelector('clip-caliper-overlay')`)).toBe(true);
     expect(await page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-shell')`)).toBe(false);
     // and its buttons work: the second tool, chosen by a click on the first stage's button

@@ -1,5 +1,6 @@
-import type { MarkKind } from '../../src/case/schema';
+import type { Mark, MarkKind } from '../../src/case/schema';
 import { message } from '../shared/i18n';
+import { h, svg } from './dom';
 
 /*
  * The overlay's tools and the panel's elements. The shell (shell.ts) draws them without behaviour;
@@ -24,13 +25,27 @@ export const TOOLS: readonly ToolDef[] = [
 /** The tool chosen when a session starts. */
 export const FIRST_TOOL: MarkKind = 'object-span';
 
+export type Dimension = NonNullable<Mark['dimension']>;
+
+export interface DimensionDef {
+  value: Dimension;
+  label: string;
+  key: string;
+}
+
+/* Which of the object's dimensions its marked span is; the keys W and L choose them. */
+export const DIMENSIONS: readonly DimensionDef[] = [
+  { value: 'wingspan', label: message('ovlDimensionWingspan'), key: 'W' },
+  { value: 'length', label: message('ovlDimensionLength'), key: 'L' },
+];
+
+/** The dimension chosen when a session starts. */
+export const FIRST_DIMENSION: Dimension = 'wingspan';
+
 export interface PanelParts {
   surface: HTMLDivElement;
-  layer: SVGSVGElement;
-  magnifier: HTMLDivElement;
-  magCanvas: HTMLCanvasElement;
   toolButtons: Map<MarkKind, HTMLButtonElement>;
-  dimension: HTMLSelectElement;
+  dimensionButtons: Map<Dimension, HTMLButtonElement>;
   close: HTMLButtonElement;
   readout: HTMLDivElement;
   notice: HTMLDivElement;
@@ -49,18 +64,39 @@ export function panelParts(root: ShadowRoot): PanelParts | null {
     const b = q<HTMLButtonElement>(`.tools button[data-kind="${t.kind}"]`);
     if (b) toolButtons.set(t.kind, b);
   }
+  const dimensionButtons = new Map<Dimension, HTMLButtonElement>();
+  for (const d of DIMENSIONS) {
+    const b = q<HTMLButtonElement>(`.tools .dims button[data-dimension="${d.value}"]`);
+    if (b) dimensionButtons.set(d.value, b);
+  }
   const parts = {
     surface: q<HTMLDivElement>('.surface'),
-    layer: q<SVGSVGElement>('.surface > svg'),
-    magnifier: q<HTMLDivElement>('.magnifier'),
-    magCanvas: q<HTMLCanvasElement>('.magnifier > canvas'),
-    dimension: q<HTMLSelectElement>('.tools select'),
     close: q<HTMLButtonElement>('.tools .close'),
     readout: q<HTMLDivElement>('.panel > .readout'),
     notice: q<HTMLDivElement>('.panel > .notice'),
     live: q<HTMLDivElement>('.panel > .sr'),
     panel: q<HTMLDivElement>('.panel'),
   };
-  if (toolButtons.size !== TOOLS.length || Object.values(parts).some((p) => !p)) return null;
-  return { ...(parts as { [K in keyof typeof parts]: NonNullable<(typeof parts)[K]> }), toolButtons };
+  if (toolButtons.size !== TOOLS.length || dimensionButtons.size !== DIMENSIONS.length || Object.values(parts).some((p) => !p)) return null;
+  return { ...(parts as { [K in keyof typeof parts]: NonNullable<(typeof parts)[K]> }), toolButtons, dimensionButtons };
+}
+
+export interface MarkLayers {
+  layer: SVGSVGElement;
+  magnifier: HTMLDivElement;
+  magCanvas: HTMLCanvasElement;
+}
+
+/**
+ * Adds the mark layer (inside the surface) and the magnifier beside it. The shell
+ * leaves them out: they show nothing until the session draws, and creating them in the first
+ * stage delayed the panel's first layout.
+ */
+export function addMarkLayers(surface: HTMLDivElement): MarkLayers {
+  const layer = svg('svg', { 'aria-hidden': 'true' });
+  const magCanvas = h('canvas', { width: 32, height: 32 });
+  const magnifier = h('div', { class: 'magnifier', 'aria-hidden': 'true' }, magCanvas, h('div', { class: 'cross-h' }), h('div', { class: 'cross-v' }));
+  surface.append(layer);
+  surface.after(magnifier);
+  return { layer, magnifier, magCanvas };
 }

@@ -14,7 +14,7 @@ import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './f
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
-import { FIRST_TOOL, panelParts, TOOLS } from './panel';
+import { addMarkLayers, DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, panelParts, TOOLS, type Dimension } from './panel';
 import { drawShell, shellText, takeShell } from './shell';
 import { OVERLAY_CSS } from './styles';
 import { shadowRootsAround } from './videos';
@@ -52,7 +52,7 @@ export class MeasureSession {
   private caseId = '';
   private record: CaseRecord | null = null;
   private tool: MarkKind = FIRST_TOOL;
-  private dimension: Mark['dimension'] = 'wingspan';
+  private dimension: Dimension = FIRST_DIMENSION;
   private draft: Draft | null = null;
   private selected: { markId: string; end: number } | null = null;
   private cursor: Point | null = null;
@@ -75,6 +75,7 @@ export class MeasureSession {
   private readonly magnifier: HTMLDivElement;
   private readonly magCanvas: HTMLCanvasElement;
   private readonly toolButtons = new Map<MarkKind, HTMLButtonElement>();
+  private readonly dimensionButtons = new Map<Dimension, HTMLButtonElement>();
 
   constructor(
     readonly video: HTMLVideoElement,
@@ -96,10 +97,11 @@ export class MeasureSession {
       () => this.currentMapping(),
       (hidden) => forceStyle(this.host.el, { visibility: hidden ? 'hidden' : 'visible' }),
     );
-    this.layer = parts.layer;
     this.surface = parts.surface;
-    this.magCanvas = parts.magCanvas;
-    this.magnifier = parts.magnifier;
+    const layers = addMarkLayers(parts.surface);
+    this.layer = layers.layer;
+    this.magCanvas = layers.magCanvas;
+    this.magnifier = layers.magnifier;
     this.readoutEl = parts.readout;
     this.noticeEl = parts.notice;
     this.live = parts.live;
@@ -109,8 +111,10 @@ export class MeasureSession {
       b.addEventListener('click', () => this.chooseTool(kind), { signal });
       this.toolButtons.set(kind, b);
     }
-    const dim = parts.dimension;
-    dim.addEventListener('change', () => (this.dimension = dim.value as Mark['dimension']), { signal });
+    for (const [value, b] of parts.dimensionButtons) {
+      b.addEventListener('click', () => this.chooseDimension(value), { signal });
+      this.dimensionButtons.set(value, b);
+    }
     parts.close.addEventListener('click', () => void this.close(), { signal });
     this.finishAfterFirstFrame();
   }
@@ -434,6 +438,12 @@ export class MeasureSession {
       e.preventDefault();
       return;
     }
+    const dimension = DIMENSIONS.find((d) => d.key === e.key.toUpperCase());
+    if (dimension && !e.ctrlKey && !e.metaKey && !e.altKey) {
+      this.chooseDimension(dimension.value);
+      e.preventDefault();
+      return;
+    }
     const step = e.altKey ? 0.1 : e.shiftKey ? 10 : 1;
     const arrows: Record<string, [number, number]> = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
     const d = arrows[e.key];
@@ -500,6 +510,12 @@ export class MeasureSession {
     const t = TOOLS.find((x) => x.kind === kind)!;
     this.say(`${t.label}: ${t.hint}`);
     this.redraw();
+  }
+
+  private chooseDimension(value: Dimension): void {
+    this.dimension = value;
+    for (const [k, b] of this.dimensionButtons) b.setAttribute('aria-pressed', k === value ? 'true' : 'false');
+    this.say(message('ovlDimensionChosen', [DIMENSIONS.find((d) => d.value === value)!.label]));
   }
 
   private placeAtCursor(): void {

@@ -24,9 +24,12 @@ export const OVERLAY_CSS = `
   border-radius: 5px; padding: 2px 7px; cursor: pointer;
 }
 .tools button[aria-pressed="true"] { background: var(--accent); border-color: var(--accent); color: #fff; }
-button:focus-visible, select:focus-visible, .surface:focus-visible { outline: 2px solid var(--accent); outline-offset: 2px; }
+button:focus-visible, .surface:focus-visible { outline: 2px solid var(--accent); outline-offset: 2px; }
 .close { margin-left: auto; }
-select { font: inherit; color: var(--fg); background: transparent; border: 1px solid var(--line); border-radius: 5px; }
+/* one control of two halves: which dimension the object's span is */
+.dims { display: flex; }
+.tools .dims button:first-child { border-radius: 5px 0 0 5px; }
+.tools .dims button + button { border-left-width: 0; border-radius: 0 5px 5px 0; }
 .readout { margin-top: 4px; font-variant-numeric: tabular-nums; }
 .readout .big { font-weight: 600; }
 .muted { color: var(--muted); }

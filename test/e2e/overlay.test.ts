@@ -383,6 +383,36 @@ describe('keyboard, announcements and page changes', () => {
     await page.close();
   });
 
+  it("says which of the object's dimensions a span is: by its buttons or the keys W and L, kept with each mark", async () => {
+    const { page, box } = await measuring('/plain.html?dimension', '1');
+    const live = page.locator('clip-caliper-overlay [data-testid=live]');
+    const pressed = () => page.locator('clip-caliper-overlay .dims button[aria-pressed=true]').getAttribute('data-dimension');
+    const span = async (y: number) => {
+      await page.mouse.move(box.x + 100, box.y + y);
+      await page.mouse.down();
+      await page.mouse.move(box.x + 200, box.y + y, { steps: 4 });
+      await page.mouse.up();
+    };
+    const dimensions = async () => ((await caseFor(page.url())).marks as { dimension?: string }[]).map((m) => m.dimension);
+    expect(await pressed()).toBe('wingspan');
+    await span(100);
+    await expect.poll(dimensions).toEqual(['wingspan']);
+    await page.locator('clip-caliper-overlay .dims button[data-dimension=length]').click();
+    expect(await pressed()).toBe('length');
+    await expect.poll(() => live.textContent()).toContain('length');
+    await span(150);
+    await expect.poll(dimensions).toEqual(['wingspan', 'length']);
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('w');
+    expect(await pressed()).toBe('wingspan');
+    await page.keyboard.press('Shift+L');
+    expect(await pressed()).toBe('length');
+    await page.keyboard.press('W');
+    await span(200);
+    await expect.poll(dimensions).toEqual(['wingspan', 'length', 'wingspan']);
+    await page.close();
+  });
+
   it('follows the video when the page scrolls', async () => {
     const page = await open('/tall.html');
     await videoReady(page);

@@ -187,10 +187,10 @@ function splitArgs(src: string, start: number): string[] | null {
   return null;
 }
 
-/** The names under which a file calls the seam's `message` (itself, or `message as t`). */
+/** The names under which a file calls the seam's `message` (itself, or `message as t`), from any of its parts. */
 function messageAliases(src: string): string[] {
   const names: string[] = [];
-  for (const imp of src.matchAll(/import\s*\{([^}]*)\}\s*from\s*['"][./]*(?:shared\/)?browser['"]/g)) {
+  for (const imp of src.matchAll(/import\s*\{([^}]*)\}\s*from\s*['"][./]*(?:shared\/)?(?:browser|native|i18n)['"]/g)) {
     for (const m of imp[1]!.matchAll(/\bmessage\b(?:\s+as\s+(\w+))?/g)) names.push(m[1] ?? 'message');
   }
   return names;

@@ -1,4 +1,4 @@
-import { message } from '../shared/browser';
+import { message } from '../shared/native';
 import { forceStyle, h } from './dom';
 import { OVERLAY_CSS } from './styles';
 

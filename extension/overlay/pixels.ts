@@ -1,6 +1,6 @@
 import { intrinsicToCss, type Mapping } from '../../src/engine/display';
 import type { Gray } from '../../src/engine/snap';
-import { send } from '../shared/browser';
+import { send } from '../shared/native';
 
 /**
  * The paused frame's pixels at intrinsic size, for snapping. Read straight from the video when

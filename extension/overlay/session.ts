@@ -4,7 +4,7 @@ import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from 
 import { snapAlong } from '../../src/engine/snap';
 import { validateCase } from '../../src/case/validate';
 import { caseKey } from '../../src/case/schema';
-import { browser, message, send } from '../shared/browser';
+import { message, nativeApis, send } from '../shared/native';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
@@ -188,8 +188,9 @@ export class MeasureSession {
         // a record that fails validation is not shown; the background reports it
       }
     };
-    browser.storage.onChanged.addListener(onStored);
-    signal.addEventListener('abort', () => browser.storage.onChanged.removeListener(onStored));
+    const storage = nativeApis().storage;
+    storage.onChanged.addListener(onStored);
+    signal.addEventListener('abort', () => storage.onChanged.removeListener(onStored));
     const useSettings = (st: { system: UnitSystem; markerName?: string }) => {
       this.system = st.system;
       this.markerName = st.markerName ?? '';

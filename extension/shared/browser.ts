@@ -1,9 +1,10 @@
 /**
  * The one seam over browser APIs. Every other module reaches the browser through here, so that a
  * browser's quirks (promise vs callback APIs, Firefox's background scripts) are handled in one place.
+ * Its polyfill-free part (native.ts, i18n.ts) is what the overlay imports: it is sent into the page
+ * on every call-up, and messages and storage need no polyfill.
  */
 import browser from 'webextension-polyfill';
-import { envelope, type Reply, type RequestMap, type RequestType } from './messages';
 
 export { browser };
 
@@ -11,15 +12,5 @@ export function extensionVersion(): string {
   return browser.runtime.getManifest().version;
 }
 
-export { message } from './i18n';
-
-/** Sends a typed request to the background and unwraps its reply (throws the background's error). */
-export async function send<K extends RequestType>(
-  type: K,
-  payload: RequestMap[K]['payload'],
-): Promise<RequestMap[K]['reply']> {
-  const reply = (await browser.runtime.sendMessage(envelope(type, payload))) as Reply<K> | undefined;
-  if (!reply) throw new Error(`no reply to ${type}`);
-  if (!reply.ok) throw new Error(reply.error);
-  return reply.value;
-}
+// sending to the background and the message table need no polyfill (native.ts, i18n.ts)
+export { message, send } from './native';

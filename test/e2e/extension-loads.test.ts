@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { launchWithExtension, type Loaded } from './harness';
 
 const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { version: string };
@@ -36,6 +36,18 @@ describe('built extension in Chromium', () => {
     const res = await page.goto(`chrome-extension://${app.extensionId}/extension/overlay/index.js`);
     expect(res?.ok()).toBe(true);
     await page.close();
+  });
+
+  it('keeps the polyfill and mathjs out of the file it sends into pages', () => {
+    // each call-up sends this file into the page: the overlay reaches the browser through the
+    // seam's polyfill-free part (extension/shared/native.ts) and computes with engine kernels only
+    const overlay = readFileSync('dist/extension/overlay/index.js', 'utf8');
+    const shared = readdirSync('dist/assets').map((f) => readFileSync(`dist/assets/${f}`, 'utf8'));
+    // each marker is one the build does carry elsewhere, so the check can tell
+    for (const marker of ['This script should only be loaded in a browser extension', 'Unexpected type of argument in function']) {
+      expect(shared.some((text) => text.includes(marker))).toBe(true);
+      expect(overlay.includes(marker)).toBe(false);
+    }
   });
 
   it('popup shows the cautions and the version the background reports', async () => {

@@ -28,10 +28,10 @@ function MeasureButton() {
   const measure = async () => {
     setError(null);
     try {
-      const [tab] = await browser.tabs.query({ active: true, currentWindow: true });
-      if (tab?.id === undefined) throw new Error('no active tab');
+      const tab = await targetTab();
+      if (!tab) throw new Error('no active tab');
       await injectOverlay(tab.id);
-      window.close();
+      await doneWith(tab.id);
     } catch (e) {
       setError(t('popupInjectFailed', (e as Error).message));
     }
@@ -61,8 +61,8 @@ function ForeignFrames() {
   const [status, setStatus] = useState<string | null>(null);
   useEffect(() => {
     (async () => {
-      const [tab] = await browser.tabs.query({ active: true, currentWindow: true });
-      if (tab?.id === undefined) return;
+      const tab = await targetTab();
+      if (!tab) return;
       setTabId(tab.id);
       const { origins: found } = await send('frames/foreign', { tabId: tab.id });
       setOrigins(found);
@@ -79,7 +79,7 @@ function ForeignFrames() {
       }
       const { frames } = await send('overlay/inject-origin', { tabId, origin });
       if (frames === 0) setStatus(t('popupFrameNoVideo', origin));
-      else window.close();
+      else await doneWith(tabId);
     } catch (e) {
       setStatus(t('popupInjectFailed', (e as Error).message));
     }
@@ -106,6 +106,15 @@ async function targetTab(): Promise<{ id: number; url: string } | null> {
   const param = new URLSearchParams(location.search).get('tab');
   const tab = param ? await browser.tabs.get(Number(param)) : (await browser.tabs.query({ active: true, currentWindow: true }))[0];
   return tab?.id !== undefined && tab.url ? { id: tab.id, url: tab.url } : null;
+}
+
+/**
+ * After calling the overlay up: the popup closes over its page; the view in a full tab stays open
+ * (it follows the marks as they are saved) and brings the measured tab forward.
+ */
+async function doneWith(tabId: number): Promise<void> {
+  if (new URLSearchParams(location.search).has('tab')) await browser.tabs.update(tabId, { active: true });
+  else window.close();
 }
 
 /**

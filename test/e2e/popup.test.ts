@@ -77,6 +77,35 @@ const numbers = (text: string) => {
   return { median: Number(g[0]), unit: g[1]!, lo: Number(g[2]), hi: Number(g[3]) };
 };
 
+describe('calling the overlay up from the popup', () => {
+  it("its Measure button calls the overlay up over the tab it is about, and the full-tab view stays open", async () => {
+    const page = await app.context.newPage();
+    await page.goto(server.url('/plain.html?measure-button'));
+    await videoReady(page);
+    const view = await popupFor(page);
+    await view.getByTestId('measure').click();
+    await overlayReady(page);
+    expect(await page.locator('clip-caliper-overlay').count()).toBe(1);
+    // the view in a full tab stays (it follows the marks) and brings the measured tab forward
+    expect(view.isClosed()).toBe(false);
+    await expect.poll(() => page.evaluate(() => document.visibilityState)).toBe('visible');
+    expect(await view.getByRole('alert').count()).toBe(0);
+    await view.close();
+    await page.close();
+  });
+
+  it('says why when the tab cannot be measured: here it was closed after its view opened', async () => {
+    const page = await app.context.newPage();
+    await page.goto(server.url('/plain.html?measure-closed'));
+    const view = await popupFor(page);
+    const tabId = Number(new URL(view.url()).searchParams.get('tab'));
+    await page.close();
+    await view.getByTestId('measure').click();
+    await expect.poll(() => view.getByRole('alert').textContent()).toMatch(new RegExp(`^Could not open the overlay on this page: .*${tabId}`));
+    await view.close();
+  });
+});
+
 describe('the popup view of a measured case', () => {
   it('shows the figures from the marks, follows typed assumptions, and keeps the last valid one on a bad entry', async () => {
     const f = truth.frames[1];

@@ -5,7 +5,7 @@ export const OVERLAY_CSS = `
 .surface { position: absolute; inset: 0; cursor: crosshair; touch-action: none; }
 .surface svg { position: absolute; inset: 0; width: 100%; height: 100%; overflow: visible; }
 .panel {
-  --bg: rgba(250, 252, 255, 0.96); --fg: #13202d; --muted: #4f5f72; --line: #c8d2de; --accent: #0b63c7;
+  --bg: #fafcff; --fg: #13202d; --muted: #4f5f72; --line: #c8d2de; --accent: #0b63c7;
   --warn: #8a4b00; --mark-object: #e8590c; --mark-landmark: #2b8a3e; --mark-frame: #7048e8; --mark-lane: #0b7285;
   position: absolute; left: 8px; top: 8px; max-width: min(30rem, calc(100% - 16px));
   background: var(--bg); color: var(--fg); border: 1px solid var(--line); border-radius: 8px;
@@ -13,7 +13,7 @@ export const OVERLAY_CSS = `
   cursor: default; user-select: none;
 }
 @media (prefers-color-scheme: dark) {
-  .panel { --bg: rgba(19, 26, 34, 0.95); --fg: #e7edf4; --muted: #a3b3c6; --line: #334253; --accent: #6cb2ff; --warn: #ffc46b; }
+  .panel { --bg: #131a22; --fg: #e7edf4; --muted: #a3b3c6; --line: #334253; --accent: #6cb2ff; --warn: #ffc46b; }
 }
 .panel[data-where="below"] { top: calc(100% + 6px); left: 0; }
 .panel[data-where="above"] { top: auto; bottom: calc(100% + 6px); left: 0; }
@@ -27,7 +27,7 @@ export const OVERLAY_CSS = `
 button:focus-visible, .surface:focus-visible { outline: 2px solid var(--accent); outline-offset: 2px; }
 .close { margin-left: auto; }
 /* one control of two halves: which dimension the object's span is */
-.dims { display: flex; }
+.dims { display: flex; margin-left: 4px; }
 .tools .dims button:first-child { border-radius: 5px 0 0 5px; }
 .tools .dims button + button { border-left-width: 0; border-radius: 0 5px 5px 0; }
 .readout { margin-top: 4px; font-variant-numeric: tabular-nums; }

@@ -51,7 +51,7 @@ async function shoot(page: Page, name: string, fullPage = false): Promise<void> 
 
 async function markedDemo(app: Loaded): Promise<Page> {
   const page = await app.context.newPage();
-  await page.setViewportSize({ width: 1000, height: 560 });
+  await page.setViewportSize({ width: 1000, height: 700 });
   await page.goto(server.url('/index.html'));
   await videoReady(page);
   const frame = truth.frames[Math.floor(truth.frames.length / 2)];
@@ -69,7 +69,12 @@ describe('walkthrough pictures from the demo clip', () => {
       const app = await launchWithExtension(E2E_DIST, { colorScheme: scheme });
       apps.push(app);
       const page = await markedDemo(app);
-      if (scheme === 'light') await shoot(page, 'overlay-marked');
+      if (scheme === 'light') {
+        // the README's picture holds the whole panel (at 560 px high it cut the readout off)
+        const panel = (await page.locator('clip-caliper-overlay .panel').boundingBox())!;
+        expect(panel.y + panel.height).toBeLessThanOrEqual(page.viewportSize()!.height);
+        await shoot(page, 'overlay-marked');
+      }
       // the assumptions the demo's guide suggests for its invented scene
       const mast = truth.landmarks.find((l: { id: string }) => l.id === 'mast').sizeM;
       const cases = (await sendAsPopup(app, 'cases/forPage', { pageUrl: page.url().split('#')[0] })) as { cases: { id: string }[] };

@@ -18,9 +18,10 @@ export function firstStage(): { func: (video: null, text: ShellText, css: string
  * Two stages. The first draws the host and panel in the page's own world at once (overlay/shell.ts)
  * and lets the page show them; the second, the overlay proper in the extension's isolated world,
  * adopts and wires them. The overlay guards itself against a second mount, so calling it up twice
- * is harmless.
+ * is harmless. `overlay` is the overlay proper's file; only the browser tests name another (one
+ * that is not there, to see the first stage's panel taken away again).
  */
-export async function injectOverlay(tabId: number, frameId?: number): Promise<boolean> {
+export async function injectOverlay(tabId: number, frameId?: number, overlay: string = overlayFile): Promise<boolean> {
   const target = frameId === undefined ? { tabId } : { tabId, frameIds: [frameId] };
   try {
     const drawn = await browser.scripting.executeScript({ target, world: 'MAIN', ...firstStage() }).then(
@@ -32,7 +33,7 @@ export async function injectOverlay(tabId: number, frameId?: number): Promise<bo
     // frame, which then came only after it: that frame began 30 ms after the call against 15 when
     // waiting for it; the overlay is wired later for it, 67 ms against 44 (npm run bench, one run)
     if (drawn) await browser.scripting.executeScript({ target, world: 'MAIN', func: afterNextFrame }).catch(() => undefined);
-    await browser.scripting.executeScript({ target, files: [overlayFile] });
+    await browser.scripting.executeScript({ target, files: [overlay] });
   } catch (err) {
     // without the overlay proper, a panel the first stage drew would sit there dead: take it away
     await browser.scripting

@@ -209,6 +209,13 @@ describe('calling the overlay up', () => {
    * the mark, seen as the host is added, tells the page's own world drew it and not the session.
    */
   async function callUpWatchingHosts(page: Page): Promise<boolean[]> {
+    await watchHosts(page);
+    await callUpAsPopup(app, await tabIdOf(page.url()));
+    await ready(page);
+    return (await page.evaluate(`window.__byFirstStage`)) as boolean[];
+  }
+
+  async function watchHosts(page: Page): Promise<void> {
     await page.evaluate(`(() => {
       window.__hosts = [];
       window.__byFirstStage = [];
@@ -222,9 +229,6 @@ describe('calling the overlay up', () => {
         }
       }).observe(document.documentElement, { childList: true, subtree: true });
     })()`);
-    await callUpAsPopup(app, await tabIdOf(page.url()));
-    await ready(page);
-    return (await page.evaluate(`window.__byFirstStage`)) as boolean[];
   }
 
   /** Clicks a tool's button and reads back whether it is now the chosen one. */
@@ -269,6 +273,22 @@ describe('calling the overlay up', () => {
     expect(await callUpWatchingHosts(page)).toEqual([false]);
     expect(await overlays(page)).toBe(1);
     expect(await clickTool(page, 'landmark-span')).toBe('true');
+    await page.close();
+  });
+
+  it("takes the first stage's panel away again when the overlay proper cannot be sent, and can be called up after", async () => {
+    const page = await open('/plain.html?second-stage-fails');
+    await videoReady(page);
+    await watchHosts(page);
+    const tabId = await tabIdOf(page.url());
+    // a file that is not in the extension: the second stage's injection fails as a real one could
+    await expect(callUpAsPopup(app, tabId, 'extension/overlay/not-there.js')).rejects.toThrow(/not-there\.js/);
+    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]); // the first stage had drawn
+    expect(await overlays(page)).toBe(0); // and nothing dead is left on the page
+    await callUpAsPopup(app, tabId);
+    await ready(page);
+    expect(await overlays(page)).toBe(1);
+    expect(await clickTool(page, 'lane-dash')).toBe('true');
     await page.close();
   });
 

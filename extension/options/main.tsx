@@ -4,6 +4,7 @@ import { parseBand } from '../../src/case/bands';
 import { MAX_MARKER_NAME, type Settings } from '../../src/case/settings';
 import { CAMERA_PROFILES } from '../../src/engine/profiles';
 import { message } from '../shared/browser';
+import { commitsOnLeave, describedBy, FormField, valueOf } from '../shared/form-field';
 import { loadSettings, saveSettings } from '../shared/settings';
 
 /** Settings: how figures are shown and what new cases assume. Saved as soon as they change. */
@@ -57,61 +58,45 @@ function Options() {
     <main>
       <h1>{message('optTitle')}</h1>
       <div class="assumptions">
-        <div class="field">
-          <label for="system">{message('optSystemLabel')}</label>
-          <select id="system" data-testid="system" value={s.system} onChange={(e) => save({ ...s, system: (e.target as HTMLSelectElement).value as Settings['system'] })}>
+        <FormField id="system" label={message('optSystemLabel')}>
+          <select id="system" data-testid="system" value={s.system} onChange={(e) => save({ ...s, system: valueOf(e) as Settings['system'] })}>
             <option value="metric">{message('optSystemMetric')}</option>
             <option value="imperial">{message('optSystemImperial')}</option>
             <option value="aviation">{message('optSystemAviation')}</option>
           </select>
-        </div>
-        <div class="field">
-          <label for="camera">{message('optCameraLabel')}</label>
-          <select id="camera" data-testid="camera" value={s.cameraProfile} onChange={(e) => save({ ...s, cameraProfile: (e.target as HTMLSelectElement).value })}>
+        </FormField>
+        <FormField id="camera" label={message('optCameraLabel')}>
+          <select id="camera" data-testid="camera" value={s.cameraProfile} onChange={(e) => save({ ...s, cameraProfile: valueOf(e) })}>
             {CAMERA_PROFILES.map((p) => (
               <option value={p.id}>
                 {p.label} ({p.hfovDeg.lo.toFixed(0)}–{p.hfovDeg.hi.toFixed(0)}°)
               </option>
             ))}
           </select>
-        </div>
-        <div class="field">
-          <label for="speed">{message('optSpeedLabel')}</label>
+        </FormField>
+        <FormField id="speed" label={message('optSpeedLabel')} error={speedError}>
           <input
             id="speed"
             data-testid="speed"
             value={speed}
             placeholder={message('optSpeedHint')}
-            aria-invalid={speedError ? 'true' : 'false'}
-            onInput={(e) => setSpeed((e.target as HTMLInputElement).value)}
-            onBlur={commitSpeed}
-            onKeyDown={(e) => e.key === 'Enter' && commitSpeed()}
+            {...describedBy('speed', speedError)}
+            onInput={(e) => setSpeed(valueOf(e))}
+            {...commitsOnLeave(commitSpeed)}
           />
-          {speedError && (
-            <div class="error" role="alert">
-              {speedError}
-            </div>
-          )}
-        </div>
-        <div class="field">
-          <label for="marker-name">{message('optNameLabel')}</label>
+        </FormField>
+        <FormField id="marker-name" label={message('optNameLabel')} error={nameError}>
           <input
             id="marker-name"
             data-testid="marker-name"
             value={name}
             maxLength={MAX_MARKER_NAME + 20}
             placeholder={message('optNameHint')}
-            aria-invalid={nameError ? 'true' : 'false'}
-            onInput={(e) => setName((e.target as HTMLInputElement).value)}
-            onBlur={commitName}
-            onKeyDown={(e) => e.key === 'Enter' && commitName()}
+            {...describedBy('marker-name', nameError)}
+            onInput={(e) => setName(valueOf(e))}
+            {...commitsOnLeave(commitName)}
           />
-          {nameError && (
-            <div class="error" role="alert">
-              {nameError}
-            </div>
-          )}
-        </div>
+        </FormField>
       </div>
       <p class="muted" role="status">
         {status}

@@ -14,6 +14,7 @@ import { extensionVersion, message, send } from '../shared/browser';
 import { RangePlotView } from './range-plot';
 import { CameraPicker, DirectionPicker, MountPicker, SizePicker } from './pickers';
 import { PlanViewSvg } from './plan-view';
+import { commitsOnLeave, describedBy, FormField, valueOf } from '../shared/form-field';
 
 const DEG = Math.PI / 180;
 
@@ -120,25 +121,17 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
     }
   };
   return (
-    <div class="field">
-      <label for={id}>{f.label}</label>
+    <FormField id={id} label={f.label} error={error}>
       <input
         id={id}
         data-testid={id}
         value={text}
         placeholder={f.hint}
-        aria-invalid={error ? 'true' : 'false'}
-        aria-describedby={error ? `${id}-error` : undefined}
-        onInput={(e) => setText((e.target as HTMLInputElement).value)}
-        onBlur={commit}
-        onKeyDown={(e) => e.key === 'Enter' && commit()}
+        {...describedBy(id, error)}
+        onInput={(e) => setText(valueOf(e))}
+        {...commitsOnLeave(commit)}
       />
-      {error && (
-        <div class="error" id={`${id}-error`} role="alert">
-          {error}
-        </div>
-      )}
-    </div>
+    </FormField>
   );
 }
 
@@ -335,14 +328,13 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
         <DirectionPicker a={a} onSave={save} />
         <MountPicker a={a} onSave={save} />
         {a.fixedCamera && <Field key={`${c.id}-aim-${JSON.stringify(AIM_FIELD.get(a) ?? null)}`} f={AIM_FIELD} a={a} onSave={save} />}
-        <div class="field">
-          <label for="field-lanes">{message('caseLanesLabel')}</label>
+        <FormField id="field-lanes" label={message('caseLanesLabel')}>
           <select
             id="field-lanes"
             data-testid="field-lanes"
             value={a.laneCycleId ?? ''}
             onChange={(e) => {
-              const id = (e.target as HTMLSelectElement).value;
+              const id = valueOf(e);
               const next = { ...a };
               if (id) next.laneCycleId = id;
               else delete next.laneCycleId;
@@ -368,7 +360,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
             </div>
           )}
           {r.laneSpeedMissing && <div class="muted">{r.laneSpeedMissing}</div>}
-        </div>
+        </FormField>
         {saveError && <p class="error">{saveError}</p>}
       </section>
       <Results r={r} system={system} />

@@ -10,6 +10,7 @@ import { browser, extensionVersion, message as t, send } from '../shared/browser
 import { marksCsv } from '../../src/case/csv';
 import { exportFileName } from '../../src/case/importing';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
+import { describedBy, FormField, valueOf } from '../shared/form-field';
 import './log.css';
 
 /*
@@ -290,31 +291,23 @@ function Filters({ f, set, tags, sites, dateError }: { f: FilterText; set: (next
     const id = `log-${which}`;
     const bad = dateError?.field === which;
     return (
-      <div class="field">
-        <label for={id}>{t(which === 'from' ? 'logFromLabel' : 'logToLabel')}</label>
+      <FormField id={id} label={t(which === 'from' ? 'logFromLabel' : 'logToLabel')} error={bad ? dateError.error : null}>
         <input
           id={id}
           type="date"
           data-testid={id}
           value={f[which]}
-          aria-invalid={bad ? 'true' : 'false'}
-          aria-describedby={bad ? `${id}-error` : undefined}
-          onInput={(e) => upd(which, (e.target as HTMLInputElement).value)}
+          {...describedBy(id, bad ? dateError.error : null)}
+          onInput={(e) => upd(which, valueOf(e))}
         />
-        {bad && (
-          <div class="error" id={`${id}-error`} role="alert">
-            {dateError!.error}
-          </div>
-        )}
-      </div>
+      </FormField>
     );
   };
   return (
     <section class="log-filters" aria-label={t('logFiltersLabel')}>
-      <div class="field log-search">
-        <label for="log-search">{t('logSearchLabel')}</label>
-        <input id="log-search" type="search" data-testid="log-search" value={f.text} placeholder={t('logSearchHint')} onInput={(e) => upd('text', (e.target as HTMLInputElement).value)} />
-      </div>
+      <FormField id="log-search" label={t('logSearchLabel')} extraClass="log-search">
+        <input id="log-search" type="search" data-testid="log-search" value={f.text} placeholder={t('logSearchHint')} onInput={(e) => upd('text', valueOf(e))} />
+      </FormField>
       <fieldset class="log-statuses">
         <legend>{t('logStatusLabel')}</legend>
         {CASE_STATUSES.map((s) => (
@@ -323,41 +316,37 @@ function Filters({ f, set, tags, sites, dateError }: { f: FilterText; set: (next
           </label>
         ))}
       </fieldset>
-      <div class="field">
-        <label for="log-tag">{t('logTagFilterLabel')}</label>
-        <select id="log-tag" data-testid="log-tag" value={f.tag} onChange={(e) => upd('tag', (e.target as HTMLSelectElement).value)}>
+      <FormField id="log-tag" label={t('logTagFilterLabel')}>
+        <select id="log-tag" data-testid="log-tag" value={f.tag} onChange={(e) => upd('tag', valueOf(e))}>
           <option value="">{t('logAny')}</option>
           {tags.map((x) => (
             <option value={x}>{x}</option>
           ))}
         </select>
-      </div>
-      <div class="field">
-        <label for="log-site">{t('logSiteFilterLabel')}</label>
-        <select id="log-site" data-testid="log-site" value={f.site} onChange={(e) => upd('site', (e.target as HTMLSelectElement).value)}>
+      </FormField>
+      <FormField id="log-site" label={t('logSiteFilterLabel')}>
+        <select id="log-site" data-testid="log-site" value={f.site} onChange={(e) => upd('site', valueOf(e))}>
           <option value="">{t('logAny')}</option>
           {sites.map((x) => (
             <option value={x}>{x}</option>
           ))}
         </select>
-      </div>
-      <div class="field">
-        <label for="log-date-field">{t('logDateFieldLabel')}</label>
-        <select id="log-date-field" value={f.dateField} onChange={(e) => upd('dateField', (e.target as HTMLSelectElement).value as DateField)}>
+      </FormField>
+      <FormField id="log-date-field" label={t('logDateFieldLabel')}>
+        <select id="log-date-field" value={f.dateField} onChange={(e) => upd('dateField', valueOf(e) as DateField)}>
           <option value="updatedAt">{t('logDateUpdated')}</option>
           <option value="createdAt">{t('logDateCreated')}</option>
         </select>
-      </div>
+      </FormField>
       {dateField('from')}
       {dateField('to')}
-      <div class="field">
-        <label for="log-sort">{t('logSortLabel')}</label>
-        <select id="log-sort" data-testid="log-sort" value={f.sort} onChange={(e) => upd('sort', (e.target as HTMLSelectElement).value as SortKey)}>
+      <FormField id="log-sort" label={t('logSortLabel')}>
+        <select id="log-sort" data-testid="log-sort" value={f.sort} onChange={(e) => upd('sort', valueOf(e) as SortKey)}>
           {SORT_KEYS.map((k) => (
             <option value={k}>{t(SORT_LABEL[k])}</option>
           ))}
         </select>
-      </div>
+      </FormField>
       <div class="field">
         <span class="label-like" aria-hidden="true">
           &nbsp;
@@ -443,30 +432,22 @@ function Annotate({ c, onSaved }: { c: CaseListing; onSaved: (msg: string) => vo
   };
   return (
     <form class="log-annotate" onSubmit={save} aria-label={t('logAnnotateLabel')}>
-      <div class="field">
-        <label for="log-notes">{t('logNotesLabel')}</label>
+      <FormField id="log-notes" label={t('logNotesLabel')} error={notesError}>
         <textarea
           id="log-notes"
           data-testid="log-notes"
           rows={4}
           value={notes}
-          aria-invalid={notesError ? 'true' : 'false'}
-          aria-describedby={notesError ? 'log-notes-error' : undefined}
+          {...describedBy('log-notes', notesError)}
           onInput={(e) => {
-            setNotes((e.target as HTMLTextAreaElement).value);
+            setNotes(valueOf(e));
             setDirty(true);
           }}
         />
-        {notesError && (
-          <div class="error" id="log-notes-error" role="alert">
-            {notesError}
-          </div>
-        )}
-      </div>
-      <div class="field">
-        <label for="log-status">{t('logStatusLabel')}</label>
+      </FormField>
+      <FormField id="log-status" label={t('logStatusLabel')}>
         <select id="log-status" data-testid="log-status" value={status} onChange={(e) => {
-            setStatus((e.target as HTMLSelectElement).value as CaseStatus);
+            setStatus(valueOf(e) as CaseStatus);
             setDirty(true);
           }}
         >
@@ -474,31 +455,20 @@ function Annotate({ c, onSaved }: { c: CaseListing; onSaved: (msg: string) => vo
             <option value={s}>{statusWord(s)}</option>
           ))}
         </select>
-      </div>
-      <div class="field">
-        <label for="log-tags">{t('logTagsLabel')}</label>
+      </FormField>
+      <FormField id="log-tags" label={t('logTagsLabel')} error={tagError} hint={t('logTagsHint')}>
         <input
           id="log-tags"
           data-testid="log-tags"
           value={tags}
           placeholder={t('logTagsHint')}
-          aria-invalid={tagError ? 'true' : 'false'}
-          aria-describedby={tagError ? 'log-tags-error' : 'log-tags-hint'}
+          {...describedBy('log-tags', tagError, true)}
           onInput={(e) => {
-            setTags((e.target as HTMLInputElement).value);
+            setTags(valueOf(e));
             setDirty(true);
           }}
         />
-        {tagError ? (
-          <div class="error" id="log-tags-error" role="alert">
-            {tagError}
-          </div>
-        ) : (
-          <div class="muted small" id="log-tags-hint">
-            {t('logTagsHint')}
-          </div>
-        )}
-      </div>
+      </FormField>
       {changedElsewhere && (
         <p class="log-warn" role="status" data-testid="log-changed-elsewhere">
           {t('logChangedElsewhere')}
@@ -643,9 +613,8 @@ function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: boolean; 
         )}
       </section>
       <section class="log-actions" aria-label={t('logActionsLabel')}>
-        <div class="field">
-          <label for="log-seek">{t('logSeekLabel')}</label>
-          <select id="log-seek" data-testid="log-seek" value={seekT} onChange={(e) => setSeekT((e.target as HTMLSelectElement).value)}>
+        <FormField id="log-seek" label={t('logSeekLabel')}>
+          <select id="log-seek" data-testid="log-seek" value={seekT} onChange={(e) => setSeekT(valueOf(e))}>
             <option value="">{t('logSeekNone')}</option>
             {c.timestamps.map((x) => (
               <option value={String(x)}>
@@ -653,7 +622,7 @@ function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: boolean; 
               </option>
             ))}
           </select>
-        </div>
+        </FormField>
         <button type="button" class="primary" data-testid="log-open" onClick={open}>
           {t('logOpen')}
         </button>{' '}

@@ -5,6 +5,7 @@ import { hfovFromEquivalentFocal } from '../../src/engine/camera';
 import { CAMERA_PROFILES, profileHfovRad } from '../../src/engine/profiles';
 import { CODE_LETTERS, OTHER_SIZE_CLASSES } from '../../src/engine/size';
 import { message } from '../shared/browser';
+import { FormField, valueOf } from '../shared/form-field';
 
 /*
  * The assumptions that are chosen rather than typed: a camera class or a focal length, a size class,
@@ -19,14 +20,13 @@ const round = (x: number, digits = 4) => +x.toPrecision(digits);
 export function CameraPicker({ a, onSave }: { a: CaseAssumptions; onSave: Save }) {
   const current = CAMERA_PROFILES.find((p) => p.label === a.cameraLabel)?.id ?? '';
   return (
-    <div class="field">
-      <label for="field-camera">{message('pickCameraLabel')}</label>
+    <FormField id="field-camera" label={message('pickCameraLabel')}>
       <select
         id="field-camera"
         data-testid="field-camera"
         value={current}
         onChange={(e) => {
-          const id = (e.target as HTMLSelectElement).value;
+          const id = valueOf(e);
           const p = CAMERA_PROFILES.find((x) => x.id === id);
           if (!p) return;
           const h = profileHfovRad(p);
@@ -41,7 +41,7 @@ export function CameraPicker({ a, onSave }: { a: CaseAssumptions; onSave: Save }
         ))}
       </select>
       <FocalForm a={a} onSave={onSave} />
-    </div>
+    </FormField>
   );
 }
 
@@ -82,15 +82,15 @@ function FocalForm({ a, onSave }: { a: CaseAssumptions; onSave: Save }) {
       <div class="focal-grid">
         <label>
           {message('pickFocalLabel')}
-          <input data-testid="focal-mm" value={focal} placeholder={message('pickFocalHint')} aria-invalid={error ? 'true' : 'false'} onInput={(e) => setFocal((e.target as HTMLInputElement).value)} />
+          <input data-testid="focal-mm" value={focal} placeholder={message('pickFocalHint')} aria-invalid={error ? 'true' : 'false'} onInput={(e) => setFocal(valueOf(e))} />
         </label>
         <label>
           {message('pickZoomLabel')}
-          <input data-testid="focal-zoom" value={zoom} inputMode="decimal" onInput={(e) => setZoom((e.target as HTMLInputElement).value)} />
+          <input data-testid="focal-zoom" value={zoom} inputMode="decimal" onInput={(e) => setZoom(valueOf(e))} />
         </label>
         <label>
           {message('pickCropLabel')}
-          <input data-testid="focal-crop" value={crop} inputMode="decimal" onInput={(e) => setCrop((e.target as HTMLInputElement).value)} />
+          <input data-testid="focal-crop" value={crop} inputMode="decimal" onInput={(e) => setCrop(valueOf(e))} />
         </label>
         <label class="check">
           <input type="checkbox" checked={portrait} onChange={(e) => setPortrait((e.target as HTMLInputElement).checked)} /> {message('pickPortrait')}
@@ -116,14 +116,13 @@ export function SizePicker({ a, onSave, dimension }: { a: CaseAssumptions; onSav
   ];
   const current = options.find((o) => o.label === a.sizeLabel)?.id ?? '';
   return (
-    <div class="field">
-      <label for="field-size-class">{message('pickSizeLabel')}</label>
+    <FormField id="field-size-class" label={message('pickSizeLabel')}>
       <select
         id="field-size-class"
         data-testid="field-size-class"
         value={current}
         onChange={(e) => {
-          const o = options.find((x) => x.id === (e.target as HTMLSelectElement).value);
+          const o = options.find((x) => x.id === valueOf(e));
           if (!o) return;
           // code letter A is a light aircraft; B and above fly transport-like approach speeds
           const kind = o.letter ? (o.letter === 'A' ? 'fixed-wing-light' : 'fixed-wing-transport') : o.kind;
@@ -137,39 +136,37 @@ export function SizePicker({ a, onSave, dimension }: { a: CaseAssumptions; onSav
           </option>
         ))}
       </select>
-    </div>
+    </FormField>
   );
 }
 
 export function DirectionPicker({ a, onSave }: { a: CaseAssumptions; onSave: Save }) {
   return (
-    <div class="field">
-      <label for="field-direction">{message('pickDirectionLabel')}</label>
+    <FormField id="field-direction" label={message('pickDirectionLabel')}>
       <select
         id="field-direction"
         data-testid="field-direction"
         value={a.direction ?? 'unknown'}
-        onChange={(e) => onSave({ ...a, direction: (e.target as HTMLSelectElement).value as NonNullable<CaseAssumptions['direction']> })}
+        onChange={(e) => onSave({ ...a, direction: valueOf(e) as NonNullable<CaseAssumptions['direction']> })}
       >
         <option value="unknown">{message('pickDirectionUnknown')}</option>
         <option value="opposite">{message('pickDirectionOpposite')}</option>
         <option value="same">{message('pickDirectionSame')}</option>
       </select>
-    </div>
+    </FormField>
   );
 }
 
 export function MountPicker({ a, onSave }: { a: CaseAssumptions; onSave: Save }) {
   const value = a.fixedCamera?.mount ?? 'hand';
   return (
-    <div class="field">
-      <label for="field-mount">{message('pickMountLabel')}</label>
+    <FormField id="field-mount" label={message('pickMountLabel')}>
       <select
         id="field-mount"
         data-testid="field-mount"
         value={value}
         onChange={(e) => {
-          const v = (e.target as HTMLSelectElement).value;
+          const v = valueOf(e);
           const next = { ...a };
           if (v === 'tripod' || v === 'vehicle') next.fixedCamera = { mount: v, axisHeadingDeg: a.fixedCamera?.axisHeadingDeg ?? { lo: -5, hi: 5 } };
           else delete next.fixedCamera;
@@ -180,6 +177,6 @@ export function MountPicker({ a, onSave }: { a: CaseAssumptions; onSave: Save })
         <option value="tripod">{message('pickMountTripod')}</option>
         <option value="vehicle">{message('pickMountVehicle')}</option>
       </select>
-    </div>
+    </FormField>
   );
 }

@@ -4,6 +4,7 @@ import { planView, type PlanView } from '../../src/case/plots';
 import { formatQuantity, type UnitSystem } from '../../src/engine/units';
 import { message } from '../shared/browser';
 import { savePicture } from './save-picture';
+import { valueOf } from '../shared/form-field';
 
 const W = 440;
 const H = 240;
@@ -35,7 +36,7 @@ export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem
       {readings.length > 1 && (
         <label class="muted">
           {message('planDirectionLabel')}{' '}
-          <select value={p.direction} onChange={(e) => setDirection((e.target as HTMLSelectElement).value as PlanView['direction'])} data-testid="plan-direction">
+          <select value={p.direction} onChange={(e) => setDirection(valueOf(e) as PlanView['direction'])} data-testid="plan-direction">
             {readings.map((d) => (
               <option value={d}>{LABELS[d]}</option>
             ))}

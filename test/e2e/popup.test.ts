@@ -174,6 +174,22 @@ describe('the popup view of a measured case', () => {
     await page.close();
   });
 
+  it("offers size classes by length once the object's span is marked as its length in the overlay", async () => {
+    const { page, box } = await overlaid('/plain.html?marked-as-length', truth.frames[0].t);
+    const view = await popupFor(page);
+    await page.bringToFront();
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await page.keyboard.press('L'); // the span is the object's length
+    await drag(page, box, truth.frames[0].object);
+    await overlayReady(page, 1);
+    const letterC = view.getByTestId('field-size-class').locator('option[value=letter-C]');
+    // code letter C by length, 26-45 m (from memory, marked so in src/engine/size.ts)
+    await expect.poll(() => letterC.textContent()).toContain('length 26-45 m');
+    await page.close();
+    await view.close();
+  });
+
   it('settings: a new case starts from the chosen camera and observer speed, and figures follow the unit system', async () => {
     const options = await app.context.newPage();
     await options.goto(`chrome-extension://${app.extensionId}/extension/options/index.html`);

@@ -9,6 +9,7 @@ import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
 import { cameraFrame, marksAt } from '../../src/case/frames';
+import { assumedDimension } from '../../src/case/size-match';
 import { forceStyle, h, svg } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
@@ -516,7 +517,10 @@ export class MeasureSession {
   private chooseDimension(value: Dimension): void {
     this.dimension = value;
     for (const [k, b] of this.dimensionButtons) b.setAttribute('aria-pressed', k === value ? 'true' : 'false');
-    this.say(message('ovlDimensionChosen', [DIMENSIONS.find((d) => d.value === value)!.label]));
+    const chosen = message('ovlDimensionChosen', [DIMENSIONS.find((d) => d.value === value)!.label]);
+    const mismatch = this.sizeMismatch(value);
+    this.say(mismatch ? `${chosen}. ${mismatch}` : chosen);
+    this.redraw();
   }
 
   private placeAtCursor(): void {
@@ -759,10 +763,21 @@ export class MeasureSession {
     ];
     if (f.result.landmarkRange) lines.push(h('div', {}, message('ovlLandmarkRange', distanceEstimate(f.result.landmarkRange, this.system))));
     if (f.result.impliedSpeed) lines.push(h('div', {}, message('ovlImpliedSpeed', speedEstimate(f.result.impliedSpeed, this.system))));
+    const marked = draftSpan ? this.dimension : (obj as Mark).dimension;
+    const mismatch = this.sizeMismatch(marked);
+    if (mismatch) lines.push(h('div', { class: 'notice', 'data-testid': 'dimension-mismatch' }, mismatch));
     const broadside = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9;
     // the labels are stored in the case (data); only the sentence around them is ours
     lines.push(h('div', { class: 'muted' }, message(broadside ? 'ovlAssumingBroadside' : 'ovlAssumingAspect', [a.sizeLabel, a.cameraLabel.toLowerCase()])));
     this.readoutEl.replaceChildren(...lines);
+  }
+
+  /** When a span marked as `marked` disagrees with the dimension the case's size is: what to tell the user. */
+  private sizeMismatch(marked: Mark['dimension']): string | null {
+    const assumed = assumedDimension(this.record?.assumptions);
+    if (!assumed || (marked !== 'wingspan' && marked !== 'length') || marked === assumed) return null;
+    const word = (d: Dimension) => DIMENSIONS.find((x) => x.value === d)!.label;
+    return message('ovlDimensionMismatch', [word(marked), word(assumed)]);
   }
 
   private announceFigures(mark: Mark): void {

@@ -115,7 +115,10 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
       // leaving a field without changing it writes nothing
       if (cur && Math.abs(cur.lo - lo) < 1e-9 * Math.max(1, Math.abs(lo)) && Math.abs(cur.hi - hi) < 1e-9 * Math.max(1, Math.abs(hi))) return;
       const next = f.set(a, { lo, hi });
-      onSave({ ...next, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) });
+      const labelled = { ...next, ...(f.key === 'hfovDeg' ? { cameraLabel: 'Field of view given' } : {}), ...(f.key === 'objectSizeM' ? { sizeLabel: `size given, ${text.trim()}` } : {}) };
+      // a size typed in does not say which dimension it is
+      if (f.key === 'objectSizeM') delete labelled.sizeDimension;
+      onSave(labelled);
     } catch (e) {
       setError((e as Error).message);
     }
@@ -322,6 +325,11 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
       <section aria-label={message('caseAssumptionsLabel')} class="assumptions">
         <CameraPicker a={a} onSave={save} />
         <SizePicker a={a} onSave={save} dimension={dimensionMarked(c)} />
+        {r.dimensionMismatch && (
+          <p class="error" role="status" data-testid="dimension-mismatch">
+            {r.dimensionMismatch}
+          </p>
+        )}
         {FIELDS.map((f) => (
           <Field key={`${c.id}-${f.key}-${JSON.stringify(f.get(a) ?? null)}`} f={f} a={a} onSave={save} />
         ))}

@@ -126,7 +126,11 @@ export function SizePicker({ a, onSave, dimension }: { a: CaseAssumptions; onSav
           if (!o) return;
           // code letter A is a light aircraft; B and above fly transport-like approach speeds
           const kind = o.letter ? (o.letter === 'A' ? 'fixed-wing-light' : 'fixed-wing-transport') : o.kind;
-          onSave({ ...a, sizeLabel: o.label, objectSizeM: { lo: o.band.lo, hi: o.band.hi }, objectKind: kind });
+          const next: CaseAssumptions = { ...a, sizeLabel: o.label, objectSizeM: { lo: o.band.lo, hi: o.band.hi }, objectKind: kind };
+          // a code letter's band is a wingspan or a length; the other classes are measured their own way
+          if (o.letter) next.sizeDimension = dimension;
+          else delete next.sizeDimension;
+          onSave(next);
         }}
       >
         <option value="">{current ? '' : message('pickAsGiven', a.sizeLabel)}</option>

@@ -8,6 +8,7 @@ import { solveFrame, type FrameResult, type RegimeShares } from '../engine/uncer
 import { engineAssumptions, type EngineAssumptions } from './assumptions';
 import { cameraFrame, marksAt, spanInFrame, type FrameRect } from './frames';
 import type { CaseRecord, Mark } from './schema';
+import { dimensionMismatch, mismatchText } from './size-match';
 
 /*
  * A case's figures from its marks and assumptions: what the popup shows and what the summary and
@@ -83,6 +84,8 @@ export interface CaseAnalysis {
   window: { halfAngle: number; estimate: Estimate; clipLength: number | null } | null;
   /** Marks that could not be solved, with the reason (an end outside the camera frame, say). */
   problems: string[];
+  /** When the object's spans were marked as another dimension than the size assumed (size-match.ts), in one sentence. */
+  dimensionMismatch: string | null;
 }
 
 export interface AnalysisOptions {
@@ -94,6 +97,7 @@ export interface AnalysisOptions {
 
 export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseAnalysis {
   const given = engineAssumptions(c.assumptions);
+  const mismatch = dimensionMismatch(c.marks, c.assumptions);
   const lanes = measuredObserverSpeed(c, given.laneCycleId);
   // a speed measured from the clip stands in for the one given
   const a = lanes.speed ? { ...given, observerSpeed: { lo: lanes.speed.speed.lo, hi: lanes.speed.speed.hi } } : given;
@@ -221,6 +225,7 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     verdictMissing,
     window,
     problems,
+    dimensionMismatch: mismatch ? mismatchText(mismatch) : null,
   };
 }
 

@@ -20,6 +20,7 @@ export function defaultAssumptions(settings?: { cameraProfile: string; observerS
     hfovDeg: { lo: hf.lo / DEG, hi: hf.hi / DEG },
     sizeLabel: 'code letter C wingspan, 24-36 m',
     objectSizeM: { lo: span.lo, hi: span.hi },
+    sizeDimension: 'wingspan',
     aspectDeg: { lo: 90, hi: 90 },
     // a mast, tree or house the object seems pinned over (common practice)
     landmarkSizeM: { lo: 8, hi: 30 },

@@ -93,6 +93,11 @@ export interface CaseAssumptions {
   hfovDeg: Range;
   sizeLabel: string;
   objectSizeM: Range;
+  /**
+   * Which of the object's dimensions objectSizeM is: what its spans must be marked as. Absent: not
+   * said (a size typed in, a class measured another way such as a rotor's diameter).
+   */
+  sizeDimension?: 'wingspan' | 'length';
   aspectDeg: Range;
   landmarkSizeM: Range;
   /** The observer's ground speed, m/s; absent until the user gives or measures it. */

@@ -322,6 +322,8 @@ function assumptionsSection(c: CaseRecord, r: CaseAnalysis, system: UnitSystem):
     blocks: [
       { kind: 'para', text: `${lead} Each range is drawn uniformly between its ends in every Monte Carlo draw.` },
       { kind: 'fields', rows },
+      // said beside the size it contradicts: a reader recomputing the figures should see it first
+      ...(r.dimensionMismatch ? [{ kind: 'para' as const, text: `Warning: ${r.dimensionMismatch}` }] : []),
     ],
   };
 }

@@ -131,6 +131,9 @@ export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
   str(a.sizeLabel, `${path}.sizeLabel`, 0, 200);
   range(a.hfovDeg, `${path}.hfovDeg`, 0.01, 179.9);
   range(a.objectSizeM, `${path}.objectSizeM`, 0.001, 1000);
+  if (a.sizeDimension !== undefined && a.sizeDimension !== 'wingspan' && a.sizeDimension !== 'length') {
+    throw new CaseFormatError(`${path}.sizeDimension`, 'expected one of wingspan, length');
+  }
   range(a.aspectDeg, `${path}.aspectDeg`, 0.01, 179.99);
   range(a.landmarkSizeM, `${path}.landmarkSizeM`, 0.001, 1000);
   if (a.observerSpeedMs !== undefined) range(a.observerSpeedMs, `${path}.observerSpeedMs`, 0, 1000);

@@ -100,7 +100,7 @@ const readerAccepts = (x: unknown): { ok: true } | { ok: false; path: string } =
 /** What the reader checks and JSON Schema cannot say (the schema's description lists them). */
 const BEYOND_SCHEMA = [/\.points\[\d+\]\.[xy]$/, /\.(hfovDeg|objectSizeM|aspectDeg|landmarkSizeM|observerSpeedMs|headwindMs|axisHeadingDeg)$/, /^case\.history\[\d+\]\.id$/];
 
-const assumptions = { cameraLabel: 'invented camera', hfovDeg: { lo: 60, hi: 70 }, sizeLabel: 'invented size', objectSizeM: { lo: 20, hi: 30 }, aspectDeg: { lo: 80, hi: 90 }, landmarkSizeM: { lo: 5, hi: 9 }, observerSpeedMs: { lo: 20, hi: 25 }, laneCycleId: 'nz-lane', objectKind: 'unknown' as const, direction: 'opposite' as const, headwindMs: { lo: -5, hi: 5 }, fixedCamera: { mount: 'tripod' as const, axisHeadingDeg: { lo: 80, hi: 100 } } };
+const assumptions = { cameraLabel: 'invented camera', hfovDeg: { lo: 60, hi: 70 }, sizeLabel: 'invented size', objectSizeM: { lo: 20, hi: 30 }, sizeDimension: 'length' as const, aspectDeg: { lo: 80, hi: 90 }, landmarkSizeM: { lo: 5, hi: 9 }, observerSpeedMs: { lo: 20, hi: 25 }, laneCycleId: 'nz-lane', objectKind: 'unknown' as const, direction: 'opposite' as const, headwindMs: { lo: -5, hi: 5 }, fixedCamera: { mount: 'tripod' as const, axisHeadingDeg: { lo: 80, hi: 100 } } };
 const recordArb: fc.Arbitrary<CaseRecord> = fc
   .record({ c: v2RecordArb(), withAssumptions: fc.boolean(), edits: fc.nat(3) })
   .map(({ c, withAssumptions, edits }) => {

@@ -174,18 +174,29 @@ describe('the popup view of a measured case', () => {
     await page.close();
   });
 
-  it("offers size classes by length once the object's span is marked as its length in the overlay", async () => {
+  it("a span marked as the object's length against a wingspan's size is flagged in the overlay and the popup, until a size by length is chosen", async () => {
     const { page, box } = await overlaid('/plain.html?marked-as-length', truth.frames[0].t);
     const view = await popupFor(page);
     await page.bringToFront();
+    const live = page.locator('clip-caliper-overlay [data-testid=live]');
     await page.locator('clip-caliper-overlay .surface').focus();
     await page.keyboard.press('1');
-    await page.keyboard.press('L'); // the span is the object's length
+    await page.keyboard.press('L'); // the span is the object's length; the case assumes a wingspan (the defaults)
+    await expect.poll(() => live.textContent()).toContain('but the size assumed is a wingspan');
     await drag(page, box, truth.frames[0].object);
     await overlayReady(page, 1);
-    const letterC = view.getByTestId('field-size-class').locator('option[value=letter-C]');
-    // code letter C by length, 26-45 m (from memory, marked so in src/engine/size.ts)
-    await expect.poll(() => letterC.textContent()).toContain('length 26-45 m');
+    const overlayWarning = page.locator('clip-caliper-overlay [data-testid=dimension-mismatch]');
+    await expect.poll(() => overlayWarning.textContent()).toContain('Marked as its length, but the size assumed is a wingspan');
+    await expect.poll(() => view.getByTestId('dimension-mismatch').textContent()).toContain("The object's span is marked as its length, but the size assumed is a wingspan");
+    // the popup offers the classes by length: code letter C, 26-45 m (from memory, marked so in src/engine/size.ts)
+    const sizes = view.getByTestId('field-size-class');
+    await expect.poll(() => sizes.locator('option[value=letter-C]').textContent()).toContain('length 26-45 m');
+    await sizes.selectOption('letter-C');
+    await expect.poll(() => view.getByTestId('dimension-mismatch').count()).toBe(0);
+    await expect.poll(() => overlayWarning.count()).toBe(0);
+    const stored = Object.values(await storedCases(app)).find((c) => (c as { video: { pageUrl: string } }).video.pageUrl === page.url()) as { assumptions: { sizeDimension?: string; objectSizeM: { lo: number; hi: number } } };
+    expect(stored.assumptions.sizeDimension).toBe('length');
+    expect(stored.assumptions.objectSizeM).toEqual({ lo: 26, hi: 45 });
     await page.close();
     await view.close();
   });

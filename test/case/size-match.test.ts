@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { defaultAssumptions } from '../../src/case/assumptions';
-import type { Mark } from '../../src/case/schema';
+import type { CaseAssumptions, Mark } from '../../src/case/schema';
 import { assumedDimension, dimensionMismatch, mismatchText } from '../../src/case/size-match';
 import { analyseCase } from '../../src/case/analysis';
 import { newCase, upsertMark, withAssumptions } from '../../src/case/marks';
@@ -47,7 +47,7 @@ describe('dimensionMismatch', () => {
     expect(dimensionMismatch([span('a', 'wingspan')], undefined)).toBeNull();
     expect(dimensionMismatch([span('a', 'length')], byLength)).toBeNull();
     expect(dimensionMismatch([span('a'), span('b', 'other', 2), span('c', 'height', 3)], byLength)).toBeNull();
-    const typed = { ...byLength };
+    const typed: CaseAssumptions = { ...byLength };
     delete typed.sizeDimension;
     expect(dimensionMismatch([span('a', 'wingspan')], typed)).toBeNull();
     expect(dimensionMismatch([landmark], undefined)).toBeNull();

@@ -351,6 +351,34 @@ describe('CSS pixels to intrinsic pixels', () => {
     });
   }
 
+  it('follows the video when the page resizes it and then transforms it, and still maps within 0.5 px', async () => {
+    const page = await open('/plain.html?map-after-changes');
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await ready(page);
+    const gap = async () => {
+      const h = (await page.locator('clip-caliper-overlay').boundingBox())!;
+      const v = (await page.locator('video').boundingBox())!;
+      return Math.abs(h.x - v.x) + Math.abs(h.y - v.y) + Math.abs(h.width - v.width) + Math.abs(h.height - v.height);
+    };
+    // a resize (a ResizeObserver sees it), then a transform (no event fires: the safety net's turn)
+    await page.evaluate(() => Object.assign(document.querySelector('video')!.style, { width: '480px', height: '270px' }));
+    await expect.poll(gap).toBeLessThan(1);
+    await page.evaluate(() => Object.assign(document.querySelector('video')!.style, { transform: 'translate(30px, 20px) scale(1.25)', transformOrigin: '0 0' }));
+    await expect.poll(gap).toBeLessThan(1);
+    // 480x270 showing the 640x360 clip (scale 0.75), then scaled by 1.25 from its top-left: 0.9375 in all
+    const box = (await page.locator('video').boundingBox())!;
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('5');
+    for (const p of targets) await page.mouse.click(box.x + p.x * 0.9375, box.y + p.y * 0.9375);
+    await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(targets.length);
+    (await caseFor(page.url())).marks.forEach((m, i) => {
+      expect(Math.abs(m.points[0]!.x - targets[i]!.x)).toBeLessThanOrEqual(0.5);
+      expect(Math.abs(m.points[0]!.y - targets[i]!.y)).toBeLessThanOrEqual(0.5);
+    });
+    await page.close();
+  });
+
   it('maps within 0.5 px inside a same-origin frame', async () => {
     const page = await open('/frame-same.html');
     const frame = page.frames().find((f) => f.url().endsWith('/plain.html?inframe'))!;

@@ -63,7 +63,7 @@ browser.runtime.onInstalled.addListener(() => {
 });
 
 browser.contextMenus.onClicked.addListener((info, tab) => {
-  if (info.menuItemId === MENU_ID && tab?.id !== undefined) void injectOverlay(tab.id, info.frameId || undefined);
+  if (info.menuItemId === MENU_ID && tab?.id !== undefined) void injectOverlay(tab.id, { ...(info.frameId ? { frameId: info.frameId } : {}), ...(info.srcUrl ? { videoSrc: info.srcUrl } : {}) });
 });
 
 browser.commands.onCommand.addListener((command, tab) => {

@@ -61,6 +61,6 @@ export async function injectIntoOrigin(tabId: number, origin: string): Promise<n
       return r && r.origin === origin && r.videos > 0 && p.frameId !== 0;
     })
     .map((p) => p.frameId);
-  for (const frameId of frameIds) await injectOverlay(tabId, frameId);
+  for (const frameId of frameIds) await injectOverlay(tabId, { frameId });
   return frameIds.length;
 }

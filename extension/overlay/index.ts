@@ -1,6 +1,6 @@
 import { Chooser } from './chooser';
 import { MeasureSession } from './session';
-import { dropShell } from './shell';
+import { dropShell, takePreferredSrc } from './shell';
 import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
 
 /*
@@ -26,6 +26,18 @@ function mount(reg: Registry, video: HTMLVideoElement, index: number): void {
 }
 
 function run(this: Registry): void {
+  // the context menu names the video it was opened on: measure that one, even beside others
+  const prefer = takePreferredSrc();
+  if (prefer) {
+    const all = findVideos();
+    const chosen = all.filter((v) => v.currentSrc === prefer || v.src === prefer);
+    if (chosen.length === 1) {
+      this.chooser?.destroy();
+      this.chooser = null;
+      mount(this, chosen[0]!, all.indexOf(chosen[0]!));
+      return;
+    }
+  }
   const open = [...this.sessions.values()];
   if (open.length > 0) {
     open[0]!.focus();

@@ -52,16 +52,20 @@ export function shellText(): ShellText {
  * session that adopts the elements checks them again (panel.ts panelParts), so a page that
  * interfered gets a fresh shell rather than its own.
  */
-export function drawShell(video: null, text: ShellText, css: string): boolean;
+export function drawShell(video: null, text: ShellText, css: string, prefer?: string | null): boolean;
 export function drawShell(video: HTMLVideoElement, text: ShellText, css: string): HTMLElement | null;
-export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string): HTMLElement | boolean | null {
+export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string, prefer: string | null = null): HTMLElement | boolean | null {
   const tag = 'clip-caliper-overlay';
   try {
     let target = video;
     if (!target) {
+      if (document.fullscreenElement || document.querySelector(tag)) return false;
       const videos = document.getElementsByTagName('video');
-      if (videos.length !== 1 || document.fullscreenElement || document.querySelector(`${tag}, iframe, frame`)) return false;
-      target = videos[0]!;
+      // the video the user asked for (by its source), when no other has that source
+      const chosen = prefer ? [...videos].filter((v) => v.currentSrc === prefer || v.src === prefer) : [];
+      if (chosen.length === 1) target = chosen[0]!;
+      else if (videos.length === 1 && !document.querySelector('iframe, frame')) target = videos[0]!;
+      else return false;
     }
     const doc = target.ownerDocument;
     const make = (name: string, attrs: Record<string, string>, ...children: (Node | string)[]): HTMLElement => {
@@ -126,6 +130,25 @@ export function afterNextFrame(): Promise<void> {
     requestAnimationFrame(() => setTimeout(done, 0));
     setTimeout(done, 100);
   });
+}
+
+const PREFER_KEY = 'clip-caliper.prefer';
+
+/**
+ * Leaves the chosen video's source for the overlay proper, in the extension's world (run there just
+ * before it by the call-up; self-contained, as drawShell).
+ */
+export function preferVideo(src: string): void {
+  (globalThis as unknown as Record<symbol, string | undefined>)[Symbol.for('clip-caliper.prefer')] = src;
+}
+
+/** The source preferVideo left, taken once. */
+export function takePreferredSrc(): string | null {
+  const g = globalThis as unknown as Record<symbol, string | undefined>;
+  const key = Symbol.for(PREFER_KEY);
+  const src = g[key] ?? null;
+  delete g[key];
+  return src;
 }
 
 /** The shell the first stage drew in this video's document, taken once by the session. */

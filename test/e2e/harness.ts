@@ -101,15 +101,15 @@ export async function injectOverlay(app: Loaded, url: string): Promise<void> {
 
 /**
  * Calls the overlay up the way the popup's button does: straight from the extension page, without
- * the background (the e2e build exposes the popup's own call, extension/popup/main.tsx). With
- * `overlayFile`, the overlay proper is sent from that file instead (a missing one makes it fail).
+ * the background (the e2e build exposes the popup's own call, extension/popup/main.tsx), with its
+ * options: `videoSrc` as the context menu gives it, `overlayFile` to send the overlay proper from
+ * another file (a missing one makes it fail).
  */
-export async function callUpAsPopup(app: Loaded, tabId: number, overlayFile?: string): Promise<void> {
+export async function callUpAsPopup(app: Loaded, tabId: number, options: { overlayFile?: string; videoSrc?: string } = {}): Promise<void> {
   const page = await extensionPage(app);
   await page.evaluate(
-    ({ id, file }) =>
-      (globalThis as unknown as { clipCaliperE2E: { callUp(tabId: number, frameId?: number, overlay?: string): Promise<boolean> } }).clipCaliperE2E.callUp(id, undefined, file ?? undefined),
-    { id: tabId, file: overlayFile ?? null },
+    ({ id, opts }) => (globalThis as unknown as { clipCaliperE2E: { callUp(tabId: number, options: object): Promise<boolean> } }).clipCaliperE2E.callUp(id, opts),
+    { id: tabId, opts: options },
   );
 }
 

@@ -108,6 +108,28 @@ describe('calling the overlay up', () => {
     await page.close();
   });
 
+  it('measures the video the context menu was opened on, beside another, with no chooser', async () => {
+    const page = await open('/several.html?context-menu');
+    await videoReady(page, '#v');
+    await videoReady(page, '#w');
+    // the context menu hands the background the video's source address (info.srcUrl)
+    const src = await page.locator('#w').evaluate((v: HTMLVideoElement) => v.currentSrc);
+    await watchHosts(page);
+    await callUpAsPopup(app, await tabIdOf(page.url()), { videoSrc: src });
+    await ready(page);
+    expect(await page.locator('clip-caliper-chooser').count()).toBe(0);
+    expect(await overlays(page)).toBe(1);
+    const host = (await page.locator('clip-caliper-overlay').boundingBox())!;
+    const video = (await page.locator('#w').boundingBox())!;
+    expect(Math.abs(host.y - video.y) + Math.abs(host.height - video.height)).toBeLessThan(1);
+    // the first stage drew it at once (its shell carried data-shell until the session took it)
+    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]);
+    // and on the other video, while the first is open: a second session, one host each
+    await callUpAsPopup(app, await tabIdOf(page.url()), { videoSrc: await page.locator('#v').evaluate((v: HTMLVideoElement) => v.currentSrc) });
+    await expect.poll(() => overlays(page)).toBe(2);
+    await page.close();
+  });
+
   it('keeps the choice up to date when a video arrives while choosing', async () => {
     const page = await open('/late-two.html');
     await videoReady(page, '#v');
@@ -282,7 +304,7 @@ describe('calling the overlay up', () => {
     await watchHosts(page);
     const tabId = await tabIdOf(page.url());
     // a file that is not in the extension: the second stage's injection fails as a real one could
-    await expect(callUpAsPopup(app, tabId, 'extension/overlay/not-there.js')).rejects.toThrow(/not-there\.js/);
+    await expect(callUpAsPopup(app, tabId, { overlayFile: 'extension/overlay/not-there.js' })).rejects.toThrow(/not-there\.js/);
     expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]); // the first stage had drawn
     expect(await overlays(page)).toBe(0); // and nothing dead is left on the page
     await callUpAsPopup(app, tabId);

@@ -139,6 +139,7 @@ const PREFER_KEY = 'clip-caliper.prefer';
  * before it by the call-up; self-contained, as drawShell).
  */
 export function preferVideo(src: string): void {
+  // the key spelled out, not PREFER_KEY: a serialized function sees nothing of this module
   (globalThis as unknown as Record<symbol, string | undefined>)[Symbol.for('clip-caliper.prefer')] = src;
 }
 

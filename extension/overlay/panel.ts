@@ -1,4 +1,5 @@
-import type { Mark, MarkKind } from '../../src/case/schema';
+import type { MarkKind } from '../../src/case/schema';
+import type { SpanDimension } from '../../src/case/size-match';
 import { message } from '../shared/i18n';
 import { h, svg } from './dom';
 
@@ -25,10 +26,8 @@ export const TOOLS: readonly ToolDef[] = [
 /** The tool chosen when a session starts. */
 export const FIRST_TOOL: MarkKind = 'object-span';
 
-export type Dimension = NonNullable<Mark['dimension']>;
-
 export interface DimensionDef {
-  value: Dimension;
+  value: SpanDimension;
   label: string;
   key: string;
 }
@@ -40,12 +39,12 @@ export const DIMENSIONS: readonly DimensionDef[] = [
 ];
 
 /** The dimension chosen when a session starts. */
-export const FIRST_DIMENSION: Dimension = 'wingspan';
+export const FIRST_DIMENSION: SpanDimension = 'wingspan';
 
 export interface PanelParts {
   surface: HTMLDivElement;
   toolButtons: Map<MarkKind, HTMLButtonElement>;
-  dimensionButtons: Map<Dimension, HTMLButtonElement>;
+  dimensionButtons: Map<SpanDimension, HTMLButtonElement>;
   close: HTMLButtonElement;
   readout: HTMLDivElement;
   notice: HTMLDivElement;
@@ -64,7 +63,7 @@ export function panelParts(root: ShadowRoot): PanelParts | null {
     const b = q<HTMLButtonElement>(`.tools button[data-kind="${t.kind}"]`);
     if (b) toolButtons.set(t.kind, b);
   }
-  const dimensionButtons = new Map<Dimension, HTMLButtonElement>();
+  const dimensionButtons = new Map<SpanDimension, HTMLButtonElement>();
   for (const d of DIMENSIONS) {
     const b = q<HTMLButtonElement>(`.tools .dims button[data-dimension="${d.value}"]`);
     if (b) dimensionButtons.set(d.value, b);

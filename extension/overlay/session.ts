@@ -9,13 +9,13 @@ import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
 import { cameraFrame, marksAt } from '../../src/case/frames';
-import { assumedDimension } from '../../src/case/size-match';
+import { assumedDimension, type SpanDimension } from '../../src/case/size-match';
 import { forceStyle, h, svg } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
-import { addMarkLayers, DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, panelParts, TOOLS, type Dimension } from './panel';
+import { addMarkLayers, DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, panelParts, TOOLS } from './panel';
 import { drawShell, shellText, takeShell } from './shell';
 import { OVERLAY_CSS } from './styles';
 import { shadowRootsAround } from './videos';
@@ -53,7 +53,7 @@ export class MeasureSession {
   private caseId = '';
   private record: CaseRecord | null = null;
   private tool: MarkKind = FIRST_TOOL;
-  private dimension: Dimension = FIRST_DIMENSION;
+  private dimension: SpanDimension = FIRST_DIMENSION;
   private draft: Draft | null = null;
   private selected: { markId: string; end: number } | null = null;
   private cursor: Point | null = null;
@@ -76,7 +76,7 @@ export class MeasureSession {
   private readonly magnifier: HTMLDivElement;
   private readonly magCanvas: HTMLCanvasElement;
   private readonly toolButtons = new Map<MarkKind, HTMLButtonElement>();
-  private readonly dimensionButtons = new Map<Dimension, HTMLButtonElement>();
+  private readonly dimensionButtons = new Map<SpanDimension, HTMLButtonElement>();
 
   constructor(
     readonly video: HTMLVideoElement,
@@ -514,7 +514,7 @@ export class MeasureSession {
     this.redraw();
   }
 
-  private chooseDimension(value: Dimension): void {
+  private chooseDimension(value: SpanDimension): void {
     this.dimension = value;
     for (const [k, b] of this.dimensionButtons) b.setAttribute('aria-pressed', k === value ? 'true' : 'false');
     const chosen = message('ovlDimensionChosen', [DIMENSIONS.find((d) => d.value === value)!.label]);
@@ -776,7 +776,7 @@ export class MeasureSession {
   private sizeMismatch(marked: Mark['dimension']): string | null {
     const assumed = assumedDimension(this.record?.assumptions);
     if (!assumed || (marked !== 'wingspan' && marked !== 'length') || marked === assumed) return null;
-    const word = (d: Dimension) => DIMENSIONS.find((x) => x.value === d)!.label;
+    const word = (d: SpanDimension) => DIMENSIONS.find((x) => x.value === d)!.label;
     return message('ovlDimensionMismatch', [word(marked), word(assumed)]);
   }
 

@@ -54,6 +54,8 @@ export class MeasureSession {
   private record: CaseRecord | null = null;
   private tool: MarkKind = FIRST_TOOL;
   private dimension: SpanDimension = FIRST_DIMENSION;
+  /** Set once the user picks a dimension here; until then new spans follow the case's size. */
+  private dimensionPicked = false;
   private draft: Draft | null = null;
   private selected: { markId: string; end: number } | null = null;
   private cursor: Point | null = null;
@@ -254,6 +256,9 @@ export class MeasureSession {
     }
     this.record = c;
     this.assumptions = engineAssumptions(c.assumptions);
+    // a case whose size is a length (chosen in the popup) marks lengths, until the user says otherwise
+    const assumed = assumedDimension(c.assumptions);
+    if (!this.dimensionPicked && assumed && assumed !== this.dimension) this.showDimension(assumed);
     this.redraw();
   }
 
@@ -515,12 +520,17 @@ export class MeasureSession {
   }
 
   private chooseDimension(value: SpanDimension): void {
-    this.dimension = value;
-    for (const [k, b] of this.dimensionButtons) b.setAttribute('aria-pressed', k === value ? 'true' : 'false');
+    this.dimensionPicked = true;
+    this.showDimension(value);
     const chosen = message('ovlDimensionChosen', [DIMENSIONS.find((d) => d.value === value)!.label]);
     const mismatch = this.sizeMismatch(value);
     this.say(mismatch ? `${chosen}. ${mismatch}` : chosen);
     this.redraw();
+  }
+
+  private showDimension(value: SpanDimension): void {
+    this.dimension = value;
+    for (const [k, b] of this.dimensionButtons) b.setAttribute('aria-pressed', k === value ? 'true' : 'false');
   }
 
   private placeAtCursor(): void {

@@ -174,7 +174,7 @@ describe('the popup view of a measured case', () => {
     await page.close();
   });
 
-  it("a span marked as the object's length against a wingspan's size is flagged in the overlay and the popup, until a size by length is chosen", async () => {
+  it("a span marked as the object's length against a wingspan's size is flagged in the overlay and the popup until a size by length is chosen; called up again, the overlay then marks lengths", async () => {
     const { page, box } = await overlaid('/plain.html?marked-as-length', truth.frames[0].t);
     const view = await popupFor(page);
     await page.bringToFront();
@@ -197,6 +197,20 @@ describe('the popup view of a measured case', () => {
     const stored = Object.values(await storedCases(app)).find((c) => (c as { video: { pageUrl: string } }).video.pageUrl === page.url()) as { assumptions: { sizeDimension?: string; objectSizeM: { lo: number; hi: number } } };
     expect(stored.assumptions.sizeDimension).toBe('length');
     expect(stored.assumptions.objectSizeM).toEqual({ lo: 26, hi: 45 });
+    // called up again on this case, the overlay starts on lengths: the size says so
+    await page.reload();
+    await videoReady(page);
+    await seek(page, truth.frames[1].t);
+    await injectOverlay(app, page.url());
+    await overlayReady(page, 1);
+    await expect.poll(() => page.locator('clip-caliper-overlay .dims button[aria-pressed=true]').getAttribute('data-dimension')).toBe('length');
+    await page.locator('clip-caliper-overlay .surface').focus();
+    await page.keyboard.press('1');
+    await drag(page, box, truth.frames[1].object);
+    await overlayReady(page, 2);
+    const marks = async () => (Object.values(await storedCases(app)).find((c) => (c as { video: { pageUrl: string } }).video.pageUrl === page.url()) as { marks: { dimension?: string }[] }).marks;
+    await expect.poll(async () => (await marks()).map((m) => m.dimension)).toEqual(['length', 'length']);
+    expect(await overlayWarning.count()).toBe(0);
     await page.close();
     await view.close();
   });

@@ -52,6 +52,8 @@ export class MeasureSession {
   private markerName = '';
   private caseId = '';
   private record: CaseRecord | null = null;
+  /** How many marks the background has stored, by its last reply: the readout says "saved" of these only. */
+  private savedCount = 0;
   private tool: MarkKind = FIRST_TOOL;
   private dimension: SpanDimension = FIRST_DIMENSION;
   /** Set once the user picks a dimension here; until then new spans follow the case's size. */
@@ -250,6 +252,7 @@ export class MeasureSession {
 
   /** Takes a stored version of the case, keeping a nudge that is not saved yet. */
   private adopt(c: CaseRecord): void {
+    this.savedCount = c.marks.length;
     if (this.pendingId !== null && this.record) {
       const local = this.record.marks.find((m) => m.id === this.pendingId);
       if (local) c = { ...c, marks: c.marks.some((m) => m.id === local.id) ? c.marks.map((m) => (m.id === local.id ? local : m)) : [...c.marks, local] };
@@ -266,6 +269,7 @@ export class MeasureSession {
     if (this.video.currentSrc === this.src) return;
     this.flush();
     this.record = null;
+    this.savedCount = 0;
     this.draft = null;
     this.selected = null;
     this.say(message('ovlVideoChanged'));
@@ -756,7 +760,7 @@ export class MeasureSession {
     const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: DEFAULT_EDGE_SIGMA_PX } : here.find((x) => x.kind === 'object-span');
     const lm = here.find((x) => x.kind === 'landmark-span') ?? null;
     const t = this.video.currentTime;
-    const head = h('div', { class: 'muted' }, message((this.record?.marks.length ?? 0) === 1 ? 'ovlFrameHeadOne' : 'ovlFrameHead', [timestamp(t), String(this.record?.marks.length ?? 0)]));
+    const head = h('div', { class: 'muted' }, message(this.savedCount === 1 ? 'ovlFrameHeadOne' : 'ovlFrameHead', [timestamp(t), String(this.savedCount)]));
     if (!obj) {
       this.readoutEl.replaceChildren(head, h('div', {}, TOOLS.find((x) => x.kind === this.tool)!.hint));
       return;

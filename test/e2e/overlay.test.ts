@@ -692,6 +692,41 @@ describe('marking the fixture clip', () => {
     await page.close();
   });
 
+  it('says a mark is saved only once the background has stored it, even when a stopped worker must wake first', async () => {
+    const { page, box } = await measuring('/plain.html?saved-means-stored', '5');
+    // an extension page notes when the case first holds the mark (storage.onChanged, wall clock)
+    const watcher = await app.context.newPage();
+    await watcher.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html`);
+    await watcher.evaluate(() => {
+      const w = window as unknown as { storedAt: number };
+      w.storedAt = 0;
+      chrome.storage.onChanged.addListener((changes) => {
+        for (const [k, c] of Object.entries(changes)) {
+          const marks = (c.newValue as { marks?: unknown[] } | undefined)?.marks;
+          if (k.startsWith('case:') && marks?.length === 1 && !w.storedAt) w.storedAt = Date.now();
+        }
+      });
+    });
+    // and the page notes when its readout first says so
+    await page.evaluate(() => {
+      const w = window as unknown as { saidAt: number };
+      w.saidAt = 0;
+      const readout = document.querySelector('clip-caliper-overlay')!.shadowRoot!.querySelector('[data-testid=readout]')!;
+      new MutationObserver(() => {
+        if (!w.saidAt && readout.textContent!.includes('1 mark saved')) w.saidAt = Date.now();
+      }).observe(readout, { childList: true, subtree: true, characterData: true });
+    });
+    await stopServiceWorker(app); // the save must wake a fresh worker: the reply comes late
+    await page.mouse.click(box.x + 100, box.y + 100);
+    await expect.poll(() => page.evaluate(() => (window as unknown as { saidAt: number }).saidAt)).toBeGreaterThan(0);
+    const storedAt = await watcher.evaluate(() => (window as unknown as { storedAt: number }).storedAt);
+    const saidAt = await page.evaluate(() => (window as unknown as { saidAt: number }).saidAt);
+    expect(storedAt).toBeGreaterThan(0);
+    expect(saidAt).toBeGreaterThanOrEqual(storedAt);
+    await watcher.close();
+    await page.close();
+  });
+
   it('a video whose source changes gets a case of its own', async () => {
     const page = await open('/plain.html?srcchange');
     await videoReady(page);

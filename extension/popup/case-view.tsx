@@ -317,7 +317,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
     <article data-testid="case">
       <h2 class="title">{c.video.pageTitle || c.video.pageUrl}</h2>
       <p class="muted">
-        {message(r.assumptions.defaults ? 'caseMarksVideoDefaults' : 'caseMarksVideo', [String(c.marks.length), String(c.video.width), String(c.video.height)])}
+        {message(c.marks.length === 1 ? (r.assumptions.defaults ? 'caseOneMarkVideoDefaults' : 'caseOneMarkVideo') : r.assumptions.defaults ? 'caseMarksVideoDefaults' : 'caseMarksVideo', [String(c.marks.length), String(c.video.width), String(c.video.height)])}
       </p>
       <p class="muted" data-testid="labels">
         {message('caseLabels', [r.assumptions.cameraLabel, r.assumptions.sizeLabel])}

@@ -188,6 +188,7 @@ describe('the popup view of a measured case', () => {
     const overlayWarning = page.locator('clip-caliper-overlay [data-testid=dimension-mismatch]');
     await expect.poll(() => overlayWarning.textContent()).toContain('Marked as its length, but the size assumed is a wingspan');
     await expect.poll(() => view.getByTestId('dimension-mismatch').textContent()).toContain("The object's span is marked as its length, but the size assumed is a wingspan");
+    expect(await view.locator('body').innerText()).toContain('1 mark · video 640×360'); // one mark, not "1 marks"
     // the popup offers the classes by length: code letter C, 26-45 m (from memory, marked so in src/engine/size.ts)
     const sizes = view.getByTestId('field-size-class');
     await expect.poll(() => sizes.locator('option[value=letter-C]').textContent()).toContain('length 26-45 m');

@@ -9,7 +9,7 @@ import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
 import { cameraFrame, marksAt } from '../../src/case/frames';
-import { assumedDimension, type SpanDimension } from '../../src/case/size-match';
+import { assumedDimension, disagreement, type SpanDimension } from '../../src/case/size-match';
 import { forceStyle, h, svg } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
@@ -788,10 +788,10 @@ export class MeasureSession {
 
   /** When a span marked as `marked` disagrees with the dimension the case's size is: what to tell the user. */
   private sizeMismatch(marked: Mark['dimension']): string | null {
-    const assumed = assumedDimension(this.record?.assumptions);
-    if (!assumed || (marked !== 'wingspan' && marked !== 'length') || marked === assumed) return null;
-    const word = (d: SpanDimension) => DIMENSIONS.find((x) => x.value === d)!.label;
-    return message('ovlDimensionMismatch', [word(marked), word(assumed)]);
+    const d = disagreement(marked, this.record?.assumptions);
+    if (!d) return null;
+    const word = (x: SpanDimension) => DIMENSIONS.find((y) => y.value === x)!.label;
+    return message('ovlDimensionMismatch', [word(d.marked), word(d.assumed)]);
   }
 
   private announceFigures(mark: Mark): void {

@@ -103,9 +103,14 @@ function ForeignFrames() {
  * `?tab=ID`), else the active tab the popup was opened over.
  */
 async function targetTab(): Promise<{ id: number; url: string } | null> {
-  const param = new URLSearchParams(location.search).get('tab');
+  const param = viewedTab();
   const tab = param ? await browser.tabs.get(Number(param)) : (await browser.tabs.query({ active: true, currentWindow: true }))[0];
   return tab?.id !== undefined && tab.url ? { id: tab.id, url: tab.url } : null;
+}
+
+/** The tab named in the address when this view is open in a full tab (`?tab=ID`), else null. */
+function viewedTab(): string | null {
+  return new URLSearchParams(location.search).get('tab');
 }
 
 /**
@@ -113,7 +118,7 @@ async function targetTab(): Promise<{ id: number; url: string } | null> {
  * (it follows the marks as they are saved) and brings the measured tab forward.
  */
 async function doneWith(tabId: number): Promise<void> {
-  if (new URLSearchParams(location.search).has('tab')) await browser.tabs.update(tabId, { active: true });
+  if (viewedTab()) await browser.tabs.update(tabId, { active: true });
   else window.close();
 }
 

@@ -23,14 +23,21 @@ export function assumedDimension(a: CaseAssumptions | undefined): SpanDimension 
   return (a ?? defaultAssumptions()).sizeDimension ?? null;
 }
 
+/**
+ * A span marked as `marked` against the assumed size: both dimensions when they disagree; null when
+ * they agree, or either does not say (the one rule the overlay and the whole-case check share).
+ */
+export function disagreement(marked: Mark['dimension'], a: CaseAssumptions | undefined): { marked: SpanDimension; assumed: SpanDimension } | null {
+  const assumed = assumedDimension(a);
+  return assumed && (marked === 'wingspan' || marked === 'length') && marked !== assumed ? { marked, assumed } : null;
+}
+
 /** Object spans marked as another dimension than the assumed size is; null when none disagree, or the size does not say. */
 export function dimensionMismatch(marks: readonly Mark[], a: CaseAssumptions | undefined): DimensionMismatch | null {
-  const assumed = assumedDimension(a);
-  if (!assumed) return null;
   const spans = marks.filter((m) => m.kind === 'object-span');
-  const off = spans.filter((m) => (m.dimension === 'wingspan' || m.dimension === 'length') && m.dimension !== assumed);
+  const off = spans.map((m) => disagreement(m.dimension, a)).filter((d) => d !== null);
   if (off.length === 0) return null;
-  return { assumed, marked: off[0]!.dimension as SpanDimension, spans: off.length, of: spans.length };
+  return { ...off[0]!, spans: off.length, of: spans.length };
 }
 
 /** The mismatch in one plain sentence, for the popup and the shared summary. */

@@ -45,6 +45,19 @@ export function rangeUnchecked(trueSizeM: number, tanHalfTheta: number, sinAspec
   return (trueSizeM * sinAspect) / (2 * tanHalfTheta);
 }
 
+/**
+ * Horizontal distance to the foot of an upright landmark of height L standing on level ground, seen
+ * from a camera h above that ground, from the exact angle theta between its foot and top (t = tan
+ * theta): tan theta = L d / (d^2 - (L - h) h), solved for d > 0. Exact for a vertical segment off the
+ * camera's height, where L / (2 tan(theta/2)) is not (it treats the segment as square to the sight
+ * line through its middle). NaN when theta does not fit the height.
+ */
+export function footDistanceUnchecked(L: number, tanTheta: number, h: number): number {
+  const disc = L * L + 4 * tanTheta * tanTheta * (L - h) * h;
+  const d = (L + Math.sqrt(disc)) / (2 * tanTheta);
+  return d > 0 && disc >= 0 ? d : Number.NaN;
+}
+
 /** Angle (rad, 0 to 180 deg) an object of true size L subtends at range R and aspect angle a. */
 export function angularSizeAt(trueSizeM: number, rangeM: number, aspectRad = BROADSIDE): number {
   size(trueSizeM);

@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
-import { angularSizeAt, rangeFromAngularSize, rangeFromColumns } from '../../src/engine/range';
+import { angularSizeAt, footDistanceUnchecked, rangeFromAngularSize, rangeFromColumns } from '../../src/engine/range';
 import { angleBetweenColumns, focalLengthPx } from '../../src/engine/camera';
 import { DEG, MAX_RANGE_M, MAX_SIZE_M, MAX_FRAME_PX } from '../../src/engine/constants';
 import { InputError } from '../../src/engine/errors';
@@ -229,5 +229,25 @@ describe('rangeFromColumns', () => {
     expectInputError(() => rangeFromColumns(10, 20, 1920, 0, 36), 'horizontal field of view');
     expectInputError(() => rangeFromColumns(10, 20, 1920, 1, -36), 'true size');
     expectInputError(() => rangeFromColumns(10, 20, 1920, 1, 36, 4), 'aspect angle');
+  });
+});
+
+describe('footDistanceUnchecked: an upright landmark on level ground', () => {
+  it('inverts the exact angle between its foot and top, atan((L - h)/d) + atan(h/d), for masts taller and shorter than the camera is high', () => {
+    // invented masts; the angle is built from the two rays to foot and top, not from the formula
+    for (const [L, h, d] of [
+      [20, 1.5, 170],
+      [90, 1.5, 750],
+      [1, 1.5, 40],
+      [16, 3, 60],
+    ] as const) {
+      const theta = Math.atan((L - h) / d) + Math.atan(h / d);
+      expect(footDistanceUnchecked(L, Math.tan(theta), h)).toBeCloseTo(d, 6);
+    }
+  });
+  it('differs from L / (2 tan(theta / 2)) when the camera is off the mast’s mid height', () => {
+    const theta = Math.atan(18.5 / 170) + Math.atan(1.5 / 170);
+    const naive = 20 / (2 * Math.tan(theta / 2));
+    expect(Math.abs(Math.sqrt(naive * naive - 8.5 * 8.5) / 170 - 1)).toBeGreaterThan(0.001);
   });
 });

@@ -1,0 +1,231 @@
+import { spanHalfAngleTanUnchecked, spanLineConstants } from './camera';
+import { pitchFromKnownElevationUnchecked, rayAzimuthFromAxis, rayElevation, tiltFromHorizonUnchecked, type CameraTilt } from './orientation';
+import type { AxisCode } from './pass-model';
+import { footDistanceUnchecked } from './range';
+import type { PassData } from './pass-fit';
+import type { Rng } from './rng';
+import type { Band, SpanMark } from './uncertainty';
+
+/*
+ * One draw's observations of a pass: every uncertain input picked once (size, field of view, the
+ * observer's speed, the track's angle, the camera's height, aim and pitch), every marked point moved
+ * by its uncertainty, and from them each span's angle, each mark's elevation where something in the
+ * frame gives the camera's tilt, each mark's azimuth for a camera that kept its aim, and each
+ * landmark's range. The nominal draw takes every band's middle and moves nothing: the fit of that
+ * draw is the start of all the others.
+ */
+
+/** A span of the object at one timestamp, in camera-frame pixels. */
+export interface PassMark {
+  t: number;
+  span: SpanMark;
+}
+
+/** Two points on the true horizon at one timestamp (camera-frame pixels), each good to sigmaPx. */
+export interface HorizonMark {
+  t: number;
+  x1: number;
+  y1: number;
+  x2: number;
+  y2: number;
+  sigmaPx: number;
+}
+
+/** A landmark's span at one timestamp. A height's lower end is its base on the ground. */
+export interface LandmarkMark {
+  id: string;
+  t: number;
+  span: SpanMark;
+  size: Band;
+  dimension: 'height' | 'width';
+  /** A width's angle to the line of sight (rad, pi/2 square on); a height has none. */
+  aspect?: Band;
+}
+
+export interface PassScene {
+  frame: { widthPx: number; heightPx: number };
+  hfov: Band;
+  object: { size: Band; axis: AxisCode };
+  marks: PassMark[];
+  /** m/s; {0, 0} for a camera that stood still */
+  observerSpeed: Band;
+  /** The track's angle to the road, rad (0: parallel). Fitted instead for a camera that kept its aim. */
+  trackAngle: Band;
+  /** The camera's height above the ground, m (a landmark's base gives the tilt through it). */
+  cameraHeight: Band;
+  horizons: HorizonMark[];
+  landmarks: LandmarkMark[];
+  /**
+   * A camera that kept its aim: its axis's azimuth (rad, + left of the road ahead) and, when no
+   * horizon is marked, its pitch. A marked point where the road ahead vanishes measures the aim
+   * instead (its ray is the direction of travel).
+   */
+  fixed: { aim: Band; pitch: Band | null; roadAhead?: { x: number; y: number; sigmaPx: number } } | null;
+  /** The track's elevation seen square to the road (rad), when nothing in the frame gives it. */
+  elevation: Band;
+}
+
+/** What picks the draw's values: a seeded generator, or the bands' middles and no noise. */
+export interface Picker {
+  band(b: Band): number;
+  normal(sd: number): number;
+}
+
+export const NOMINAL: Picker = { band: (b) => (b.lo + b.hi) / 2, normal: () => 0 };
+
+export function randomPicker(rng: Rng): Picker {
+  return {
+    band: (b) => (b.lo === b.hi ? b.lo : b.lo + (b.hi - b.lo) * (rng.nextU32() / 4294967296)),
+    normal: (sd) => (sd === 0 ? 0 : rng.gauss(0, sd)),
+  };
+}
+
+/** One draw's values that the fit holds fixed, and what the readings need. */
+export interface DrawValues {
+  focalPx: number;
+  beta: number;
+  eps: number;
+  cameraHeight: number;
+  /** true when some mark has an elevation (the fit then fits eps) */
+  hasElevation: boolean;
+  /** true when every mark has an azimuth (the fit then fits beta) */
+  hasAzimuth: boolean;
+  /** per landmark mark: its horizontal range from the camera to its foot, m (NaN if it failed) */
+  landmarkRange: Float64Array;
+  /** per object mark: where the elevation came from (0 none, 1 horizon, 2 landmark base, 3 fixed pitch) */
+  elevationSource: Int8Array;
+}
+
+export function drawValues(scene: PassScene): DrawValues {
+  return {
+    focalPx: 0,
+    beta: 0,
+    eps: 0,
+    cameraHeight: 0,
+    hasElevation: false,
+    hasAzimuth: false,
+    landmarkRange: new Float64Array(scene.landmarks.length),
+    elevationSource: new Int8Array(scene.marks.length),
+  };
+}
+
+const line = new Float64Array(3);
+const SAME_FRAME_S = 1 / 48;
+/** Floor on a mark's elevation and azimuth uncertainty for weighting, rad (0.05 deg: common practice for a pinhole's residual distortion near the centre). */
+const ANGLE_FLOOR = 0.05 * (Math.PI / 180);
+
+/** Angle subtended by a span whose length changed by e px along itself, with focal length f. */
+function spanAngleMoved(s: SpanMark, W: number, H: number, focalPx: number, e: number): number {
+  spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H, line);
+  const h = spanHalfAngleTanUnchecked(line[0]!, line[1]!, line[2]!, e, 1 / focalPx);
+  return h > 0 ? 2 * Math.atan(h) : Number.NaN;
+}
+
+/**
+ * Fills d and v for one draw. `sigmaTheta` are the spans' angle uncertainties for weighting (from the
+ * nominal draw), so that every draw weighs its marks alike.
+ */
+export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Array, d: PassData, v: DrawValues): void {
+  const { widthPx: W, heightPx: H } = scene.frame;
+  const f = W / 2 / Math.tan(pick.band(scene.hfov) / 2);
+  v.focalPx = f;
+  d.L = pick.band(scene.object.size);
+  d.u = pick.band(scene.observerSpeed);
+  v.beta = pick.band(scene.trackAngle);
+  v.eps = pick.band(scene.elevation);
+  v.cameraHeight = pick.band(scene.cameraHeight);
+  d.axis = scene.object.axis;
+
+  // landmarks: their ranges, and a height's base as a ground point that gives the tilt
+  const baseTilt: (CameraTilt | null)[] = [];
+  scene.landmarks.forEach((lm, i) => {
+    const s = lm.span;
+    const theta = spanAngleMoved(s, W, H, f, pick.normal(Math.SQRT2 * s.edgeSigmaPx));
+    const size = pick.band(lm.size);
+    const sinA = lm.aspect ? Math.sin(pick.band(lm.aspect)) : 1;
+    let horizontal = (size * sinA) / (2 * Math.tan(theta / 2));
+    let tilt: CameraTilt | null = null;
+    if (lm.dimension === 'height') {
+      horizontal = footDistanceUnchecked(size, Math.tan(theta), v.cameraHeight);
+      const lower = s.y1 > s.y2 ? { x: s.x1, y: s.y1 } : { x: s.x2, y: s.y2 };
+      const X = lower.x - W / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
+      const Y = H / 2 - lower.y + pick.normal(s.edgeSigmaPx / Math.SQRT2);
+      const pitch = pitchFromKnownElevationUnchecked(X, Y, f, -Math.atan2(v.cameraHeight, horizontal));
+      if (pitch === pitch) tilt = { pitch, roll: 0 };
+    }
+    v.landmarkRange[i] = horizontal > 0 ? horizontal : Number.NaN;
+    baseTilt.push(tilt);
+  });
+
+  // horizons, each moved by its points' uncertainty
+  const horizonTilts = scene.horizons.map((h) =>
+    tiltFromHorizonUnchecked(h.x1, h.y1 + pick.normal(h.sigmaPx), h.x2, h.y2 + pick.normal(h.sigmaPx), W, H, f),
+  );
+  const fixedTilt: CameraTilt | null = scene.fixed
+    ? horizonTilts.length > 0
+      ? horizonTilts[horizonTilts.length - 1]!
+      : scene.fixed.pitch
+        ? { pitch: pick.band(scene.fixed.pitch), roll: 0 }
+        : null
+    : null;
+  const fixedSource = scene.fixed ? (horizonTilts.length > 0 ? 1 : scene.fixed.pitch ? 3 : 0) : 0;
+  let aim = scene.fixed ? pick.band(scene.fixed.aim) : 0;
+  const road = scene.fixed?.roadAhead;
+  if (road) {
+    const sd = road.sigmaPx / Math.SQRT2;
+    aim = -rayAzimuthFromAxis(road.x - W / 2 + pick.normal(sd), H / 2 - road.y + pick.normal(sd), f, fixedTilt ?? { pitch: 0, roll: 0 });
+  }
+
+  v.hasElevation = false;
+  v.hasAzimuth = !!scene.fixed;
+  scene.marks.forEach((m, k) => {
+    const s = m.span;
+    d.t[k] = m.t;
+    d.theta[k] = spanAngleMoved(s, W, H, f, pick.normal(Math.SQRT2 * s.edgeSigmaPx));
+    d.sTheta[k] = sigmaTheta[k]!;
+    const X = (s.x1 + s.x2) / 2 - W / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
+    const Y = H / 2 - (s.y1 + s.y2) / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
+    let tilt: CameraTilt | null = null;
+    let source = 0;
+    if (scene.fixed) {
+      tilt = fixedTilt;
+      source = fixedSource;
+    } else {
+      const hi = scene.horizons.findIndex((h) => Math.abs(h.t - m.t) < SAME_FRAME_S);
+      if (hi >= 0) {
+        tilt = horizonTilts[hi]!;
+        source = 1;
+      } else {
+        const li = scene.landmarks.findIndex((lm, i) => baseTilt[i] && Math.abs(lm.t - m.t) < SAME_FRAME_S);
+        if (li >= 0) {
+          tilt = baseTilt[li]!;
+          source = 2;
+        }
+      }
+    }
+    v.elevationSource[k] = source;
+    const angleSigma = Math.max(s.edgeSigmaPx / f, ANGLE_FLOOR);
+    if (tilt) {
+      d.elev[k] = rayElevation(X, Y, f, tilt);
+      d.sElev[k] = angleSigma;
+      v.hasElevation = true;
+    } else d.elev[k] = Number.NaN;
+    if (scene.fixed) {
+      d.azim[k] = aim + rayAzimuthFromAxis(X, Y, f, tilt ?? { pitch: 0, roll: 0 });
+      d.sAzim[k] = angleSigma;
+    } else d.azim[k] = Number.NaN;
+  });
+}
+
+/** The spans' angle uncertainties at the nominal draw, rad: sqrt(2) sigma of the length change, as an angle. */
+export function spanSigmas(scene: PassScene): Float64Array {
+  const { widthPx: W, heightPx: H } = scene.frame;
+  const f = W / 2 / Math.tan(NOMINAL.band(scene.hfov) / 2);
+  return Float64Array.from(scene.marks, (m) => {
+    const s = m.span;
+    const e = Math.SQRT2 * Math.max(s.edgeSigmaPx, 0.01);
+    const a = spanAngleMoved(s, W, H, f, e);
+    const b = spanAngleMoved(s, W, H, f, -e);
+    return Math.abs(a - b) / 2;
+  });
+}

@@ -29,6 +29,9 @@ const COLOURS: Record<MarkKind, string> = {
   'frame-edges': 'var(--mark-frame, #7048e8)',
   'lane-dash': 'var(--mark-lane, #0b7285)',
   'object-centre': 'var(--mark-object, #e8590c)',
+  'frame-top-bottom': 'var(--mark-frame, #7048e8)',
+  horizon: 'var(--mark-frame, #7048e8)',
+  'road-ahead': 'var(--mark-lane, #0b7285)',
 };
 
 interface Draft {

@@ -28,6 +28,9 @@ const KIND_KEY: Record<MarkKind, string> = {
   'frame-edges': 'logKindEdges',
   'lane-dash': 'logKindLane',
   'object-centre': 'logKindCentre',
+  'frame-top-bottom': 'logKindEdges',
+  horizon: 'logKindHorizon',
+  'road-ahead': 'logKindRoadAhead',
 };
 
 // rows are one fixed height in rem, so the window arithmetic holds at any zoom or font size

@@ -30,6 +30,12 @@ export const MIGRATIONS: readonly MigrationStep[] = [
     // version 1 had no history, so this step never meets one
     up: (b) => ({ ...b, schema: 2, status: 'open', tags: [], history: [] }),
   },
+  {
+    from: 2,
+    to: 3,
+    what: 'honest figures: new mark kinds and assumptions, all optional, so a version 2 body needs only its number',
+    up: (b) => ({ ...b, schema: 3 }),
+  },
 ];
 
 // the list must climb one version at a time up to SCHEMA_VERSION: checked once, on load

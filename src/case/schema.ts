@@ -4,8 +4,11 @@
  * (migrate.ts holds the steps; every read and every import runs them before validating).
  *
  * Version 1: video, marks, notes, assumptions. Version 2 (the case log): status, tags, history.
+ * Version 3 (honest figures in every regime): marks of the horizon, the picture's top and bottom
+ * edges and the road ahead; a landmark's own dimension and size; the track's angle to the road, the
+ * camera's height and pitch, the object's elevation, and who passes whom.
  */
-export const SCHEMA_VERSION = 2;
+export const SCHEMA_VERSION = 3;
 
 /** What a mark measures. */
 export type MarkKind =
@@ -18,9 +21,24 @@ export type MarkKind =
   /** a lane dash's leading edge passing the reference line: one point */
   | 'lane-dash'
   /** the object's centre, for fixed-camera clips: one point */
-  | 'object-centre';
+  | 'object-centre'
+  /** the camera frame's top and bottom edges inside the video (letterbox, crop): two points (since version 3) */
+  | 'frame-top-bottom'
+  /** two points on the true horizon (flat ground or sea, not a skyline of hills): the camera's pitch and roll (since version 3) */
+  | 'horizon'
+  /** where the road ahead vanishes, for a camera that kept its aim: the aim as a bearing (since version 3) */
+  | 'road-ahead';
 
-export const MARK_KINDS: readonly MarkKind[] = ['object-span', 'landmark-span', 'frame-edges', 'lane-dash', 'object-centre'];
+export const MARK_KINDS: readonly MarkKind[] = [
+  'object-span',
+  'landmark-span',
+  'frame-edges',
+  'lane-dash',
+  'object-centre',
+  'frame-top-bottom',
+  'horizon',
+  'road-ahead',
+];
 
 /** Points a kind takes. */
 export const POINTS_PER_KIND: Readonly<Record<MarkKind, number>> = {
@@ -29,6 +47,9 @@ export const POINTS_PER_KIND: Readonly<Record<MarkKind, number>> = {
   'frame-edges': 2,
   'lane-dash': 1,
   'object-centre': 1,
+  'frame-top-bottom': 2,
+  horizon: 2,
+  'road-ahead': 1,
 };
 
 export interface Point {
@@ -58,8 +79,13 @@ export interface Mark {
   edgeSigmaPx: number;
   /** Which dimension of the object the span is (object spans only). */
   dimension?: 'wingspan' | 'length' | 'height' | 'other';
-  /** Landmark identity, so several landmark marks can be told apart. */
+  /** Landmark identity, so several landmark marks can be told apart (absent: the one landmark). */
   landmarkId?: string;
+  /**
+   * Which of the landmark's dimensions its span is (landmark spans only, since version 3): a height
+   * stands on the ground, its lower end the foot; a width is level. Absent: a height.
+   */
+  landmarkDimension?: 'height' | 'width';
   mapping: DisplayMappingRecord;
   /** Who marked it, if the user gave a name. */
   by?: string;
@@ -99,7 +125,12 @@ export interface CaseAssumptions {
    */
   sizeDimension?: 'wingspan' | 'length';
   aspectDeg: Range;
+  /** A landmark's size along its marked dimension, for landmarks without a size of their own. */
   landmarkSizeM: Range;
+  /** Sizes of particular landmarks by their landmarkId (since version 3). */
+  landmarkSizes?: { id: string; sizeM: Range }[];
+  /** A width landmark's angle to the line of sight (since version 3); absent: square on. Heights have none. */
+  landmarkAspectDeg?: Range;
   /** The observer's ground speed, m/s; absent until the user gives or measures it. */
   observerSpeedMs?: Range;
   /**
@@ -109,16 +140,34 @@ export interface CaseAssumptions {
   laneCycleId?: string;
   /** What the object is taken to be, for the plausibility verdict (plausibility.ts ObjectKind). */
   objectKind?: 'fixed-wing-transport' | 'fixed-wing-light' | 'light-sport' | 'rotorcraft' | 'unknown';
-  /** Which way the object moves against the observer's travel; absent or 'unknown': every reading is shown. */
-  direction?: 'opposite' | 'same' | 'unknown';
+  /**
+   * Which way the object moves against the observer's travel; absent or 'unknown': every reading is
+   * shown. 'same-slower': the observer passes it; 'same-faster': it passes the observer (both since
+   * version 3); 'same': one of the two, not said which.
+   */
+  direction?: 'opposite' | 'same' | 'same-slower' | 'same-faster' | 'unknown';
+  /**
+   * The object's track against the road, degrees (0 parallel, positive turning away from the road
+   * ahead; since version 3). Absent: parallel.
+   */
+  trackAngleDeg?: Range;
+  /** The camera's height above the ground, m (since version 3). Absent: 1 to 3 m, a car or a train. */
+  cameraHeightM?: Range;
+  /**
+   * The object's elevation above the horizontal, degrees, seen square to the road (since version 3):
+   * used only when no horizon, landmark foot or camera pitch gives it from the frame.
+   */
+  elevationDeg?: Range;
   /** Wind component against the object's motion, m/s (negative: a tailwind); absent: no wind assumed. */
   headwindMs?: Range;
   /**
    * The camera kept its aim (a tripod, or a mount fixed to the vehicle): marks then give bearings,
    * and bearings with ranges give the object's ground track. axisHeadingDeg is the optical axis
-   * against the observer's direction of travel (0 ahead, 90 to the right, -90 to the left).
+   * against the observer's direction of travel (0 ahead, 90 to the right, -90 to the left); a
+   * marked road-ahead point measures it instead. pitchDeg is the optical axis above the horizontal
+   * (since version 3); a marked horizon measures it instead. Absent pitch and no horizon: level.
    */
-  fixedCamera?: { mount: 'tripod' | 'vehicle'; axisHeadingDeg: Range };
+  fixedCamera?: { mount: 'tripod' | 'vehicle'; axisHeadingDeg: Range; pitchDeg?: Range };
 }
 
 /** Where a moderator stands on a case: our own three words. */

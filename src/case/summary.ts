@@ -151,6 +151,9 @@ const KIND_TEXT: Readonly<Record<Mark['kind'], string>> = {
   'frame-edges': 'camera frame edges',
   'lane-dash': 'lane dash leading edge',
   'object-centre': 'object centre',
+  'frame-top-bottom': 'camera frame top and bottom edges',
+  horizon: 'horizon',
+  'road-ahead': 'road ahead vanishing point',
 };
 
 const INTERVAL_NOTE = 'median and 5-95 % interval';
@@ -158,6 +161,8 @@ const INTERVAL_NOTE = 'median and 5-95 % interval';
 const DIRECTION_TEXT: Readonly<Record<CaseAnalysis['assumptions']['direction'], string>> = {
   opposite: 'against the observer’s travel',
   same: 'the same way as the observer',
+  'same-slower': 'the same way as the observer, slower (the observer passes it)',
+  'same-faster': 'the same way as the observer, faster (it passes the observer)',
   unknown: 'not known, so every reading the picture allows is shown',
 };
 

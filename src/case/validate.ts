@@ -136,6 +136,21 @@ export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
   }
   range(a.aspectDeg, `${path}.aspectDeg`, 0.01, 179.99);
   range(a.landmarkSizeM, `${path}.landmarkSizeM`, 0.001, 1000);
+  if (a.landmarkSizes !== undefined) {
+    if (!Array.isArray(a.landmarkSizes) || a.landmarkSizes.length > 100) throw new CaseFormatError(`${path}.landmarkSizes`, 'expected a list of at most 100 landmarks');
+    const ids = new Set<string>();
+    a.landmarkSizes.forEach((l, i) => {
+      const e = obj(l, `${path}.landmarkSizes[${i}]`);
+      str(e.id, `${path}.landmarkSizes[${i}].id`, 1, 100);
+      if (ids.has(e.id as string)) throw new CaseFormatError(`${path}.landmarkSizes[${i}].id`, `"${e.id as string}" has a size already`);
+      ids.add(e.id as string);
+      range(e.sizeM, `${path}.landmarkSizes[${i}].sizeM`, 0.001, 1000);
+    });
+  }
+  if (a.landmarkAspectDeg !== undefined) range(a.landmarkAspectDeg, `${path}.landmarkAspectDeg`, 0.01, 179.99);
+  if (a.trackAngleDeg !== undefined) range(a.trackAngleDeg, `${path}.trackAngleDeg`, -80, 80);
+  if (a.cameraHeightM !== undefined) range(a.cameraHeightM, `${path}.cameraHeightM`, 0, 1000);
+  if (a.elevationDeg !== undefined) range(a.elevationDeg, `${path}.elevationDeg`, -30, 85);
   if (a.observerSpeedMs !== undefined) range(a.observerSpeedMs, `${path}.observerSpeedMs`, 0, 1000);
   if (a.laneCycleId !== undefined && !LANE_CYCLES.some((l) => l.id === a.laneCycleId)) {
     throw new CaseFormatError(`${path}.laneCycleId`, `expected one of ${LANE_CYCLES.map((l) => l.id).join(', ')}`);
@@ -143,7 +158,7 @@ export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
   if (a.objectKind !== undefined && !OBJECT_KINDS.includes(a.objectKind as string)) {
     throw new CaseFormatError(`${path}.objectKind`, `expected one of ${OBJECT_KINDS.join(', ')}`);
   }
-  const directions = ['opposite', 'same', 'unknown'];
+  const directions = ['opposite', 'same', 'same-slower', 'same-faster', 'unknown'];
   if (a.direction !== undefined && !directions.includes(a.direction as string)) {
     throw new CaseFormatError(`${path}.direction`, `expected one of ${directions.join(', ')}`);
   }
@@ -153,6 +168,7 @@ export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
     const f = obj(a.fixedCamera, `${path}.fixedCamera`);
     if (f.mount !== 'tripod' && f.mount !== 'vehicle') throw new CaseFormatError(`${path}.fixedCamera.mount`, 'expected one of tripod, vehicle');
     range(f.axisHeadingDeg, `${path}.fixedCamera.axisHeadingDeg`, -180, 180);
+    if (f.pitchDeg !== undefined) range(f.pitchDeg, `${path}.fixedCamera.pitchDeg`, -89, 89);
   }
   return x as CaseAssumptions;
 }
@@ -185,6 +201,9 @@ export function validateMark(x: unknown, path: string, videoWidth: number, video
     throw new CaseFormatError(`${path}.dimension`, `expected one of ${DIMENSIONS.join(', ')}`);
   }
   if (m.landmarkId !== undefined) str(m.landmarkId, `${path}.landmarkId`, 1, 100);
+  if (m.landmarkDimension !== undefined && m.landmarkDimension !== 'height' && m.landmarkDimension !== 'width') {
+    throw new CaseFormatError(`${path}.landmarkDimension`, 'expected one of height, width');
+  }
   if (m.by !== undefined) str(m.by, `${path}.by`, 1, 100);
   obj(m.mapping, `${path}.mapping`);
   num(m.createdAt, `${path}.createdAt`, 0, 1e14);

@@ -2,9 +2,10 @@ import fc from 'fast-check';
 import { CASE_STATUSES, MARK_KINDS, POINTS_PER_KIND, type CaseRecord, type CaseVersion, type Mark, type MarkKind } from '../../src/case/schema';
 
 /*
- * fast-check generators of well-formed records: version 1 (as the version 1 code wrote them) and
- * version 2. Every value stays inside the bounds validate.ts documents, so a generated record is
- * valid by construction; tests spoil them on purpose.
+ * fast-check generators of well-formed records: version 1 (as the version 1 code wrote them),
+ * version 2, and the current version 3 (with its new mark kinds and a landmark's dimension). Every
+ * value stays inside the bounds validate.ts documents, so a generated record is valid by
+ * construction; tests spoil them on purpose.
  */
 
 const W = 640;
@@ -13,11 +14,14 @@ const mapping = { objectFit: 'contain', objectPosition: '50% 50%', picture: { x:
 const time = fc.integer({ min: 1_600_000_000_000, max: 1_900_000_000_000 });
 const text = (max: number) => fc.string({ maxLength: max, unit: 'grapheme' });
 
-export const markArb = (idPrefix: string): fc.Arbitrary<Mark> =>
+/** The kinds versions 1 and 2 knew. */
+const OLD_KINDS: readonly MarkKind[] = ['object-span', 'landmark-span', 'frame-edges', 'lane-dash', 'object-centre'];
+
+export const markArb = (idPrefix: string, kinds: readonly MarkKind[] = MARK_KINDS): fc.Arbitrary<Mark> =>
   fc
     .record({
       n: fc.nat(1_000_000),
-      kind: fc.constantFrom<MarkKind>(...MARK_KINDS),
+      kind: fc.constantFrom<MarkKind>(...kinds),
       t: fc.double({ min: 0, max: 600, noNaN: true }),
       xs: fc.array(fc.double({ min: -W, max: 2 * W, noNaN: true }), { minLength: 2, maxLength: 2 }),
       ys: fc.array(fc.double({ min: -H, max: 2 * H, noNaN: true }), { minLength: 2, maxLength: 2 }),
@@ -34,6 +38,7 @@ export const markArb = (idPrefix: string): fc.Arbitrary<Mark> =>
         points,
         edgeSigmaPx: sigma,
         ...(kind === 'object-span' ? { dimension: 'wingspan' as const } : {}),
+        ...(kind === 'landmark-span' && kinds.includes('horizon') && n % 2 === 0 ? { landmarkDimension: n % 4 === 0 ? ('height' as const) : ('width' as const) } : {}),
         ...(by !== undefined ? { by } : {}),
         mapping,
         createdAt,
@@ -53,7 +58,7 @@ const idArb = fc.stringMatching(/^[0-9a-f]{16}$/);
 
 /** A version 1 record exactly as the version 1 code wrote it (no status, tags or history). */
 export const v1RecordArb = fc
-  .record({ id: idArb, video: videoArb, marks: fc.array(markArb('m'), { maxLength: 6 }), created: time, later: fc.nat(1_000_000) })
+  .record({ id: idArb, video: videoArb, marks: fc.array(markArb('m', OLD_KINDS), { maxLength: 6 }), created: time, later: fc.nat(1_000_000) })
   .map(({ id, video, marks, created, later }) => ({
     schema: 1,
     id,
@@ -79,3 +84,9 @@ export const v2RecordArb = (id?: string): fc.Arbitrary<CaseRecord> =>
       tags: tagsArb,
     })
     .map(({ base, notes, status, tags }) => ({ ...base, id: id ?? base.id, schema: 2, notes, status, tags, history: [] as CaseVersion[] }));
+
+/** A current (version 3) record with no history, for an id (or any id): every mark kind. */
+export const recordArb = (id?: string): fc.Arbitrary<CaseRecord> =>
+  fc
+    .record({ base: v2RecordArb(id), marks: fc.array(markArb('m'), { maxLength: 6 }) })
+    .map(({ base, marks }) => JSON.parse(JSON.stringify({ ...base, schema: 3, marks })) as CaseRecord);

@@ -7,7 +7,7 @@ import { withAnnotation } from '../../src/case/marks';
 import { CASE_STATUSES, MARK_KINDS, type CaseRecord } from '../../src/case/schema';
 import { CaseFormatError, validateCase } from '../../src/case/validate';
 import { LANE_CYCLES } from '../../src/engine/lanes';
-import { v2RecordArb } from './arbitraries';
+import { recordArb } from './arbitraries';
 
 /*
  * The case file's JSON Schema (src/case/case-file.schema.json, draft 2020-12) must agree with the
@@ -102,7 +102,7 @@ const BEYOND_SCHEMA = [/\.points\[\d+\]\.[xy]$/, /\.(hfovDeg|objectSizeM|aspectD
 
 const assumptions = { cameraLabel: 'invented camera', hfovDeg: { lo: 60, hi: 70 }, sizeLabel: 'invented size', objectSizeM: { lo: 20, hi: 30 }, sizeDimension: 'length' as const, aspectDeg: { lo: 80, hi: 90 }, landmarkSizeM: { lo: 5, hi: 9 }, observerSpeedMs: { lo: 20, hi: 25 }, laneCycleId: 'nz-lane', objectKind: 'unknown' as const, direction: 'opposite' as const, headwindMs: { lo: -5, hi: 5 }, fixedCamera: { mount: 'tripod' as const, axisHeadingDeg: { lo: 80, hi: 100 } } };
 const recordArb: fc.Arbitrary<CaseRecord> = fc
-  .record({ c: v2RecordArb(), withAssumptions: fc.boolean(), edits: fc.nat(3) })
+  .record({ c: recordArb(), withAssumptions: fc.boolean(), edits: fc.nat(3) })
   .map(({ c, withAssumptions, edits }) => {
     let r: CaseRecord = withAssumptions ? { ...c, assumptions } : c;
     // a few imports of edited copies give the record a history
@@ -189,17 +189,17 @@ describe('the case file JSON Schema (draft 2020-12)', () => {
   it('agrees with the file reader on the file’s own fields', () => {
     const c = JSON.parse(JSON.stringify(fc.sample(recordArb, { numRuns: 1, seed: 3 })[0]));
     const cases: [string, unknown][] = [
-      ['one case', { format: 'clip-caliper-case', schema: 2, exportedBy: 'x', case: c }],
-      ['several', { format: 'clip-caliper-case', schema: 2, cases: [c, c] }],
+      ['one case', { format: 'clip-caliper-case', schema: 3, exportedBy: 'x', case: c }],
+      ['several', { format: 'clip-caliper-case', schema: 3, cases: [c, c] }],
       ['schema 1 wrapper of a current record', { format: 'clip-caliper-case', schema: 1, case: c }],
-      ['both case and cases', { format: 'clip-caliper-case', schema: 2, case: c, cases: [c] }],
+      ['both case and cases', { format: 'clip-caliper-case', schema: 3, case: c, cases: [c] }],
       ['neither', { format: 'clip-caliper-case', schema: 2 }],
-      ['another format', { format: 'other', schema: 2, case: c }],
+      ['another format', { format: 'other', schema: 3, case: c }],
       ['a newer schema', { format: 'clip-caliper-case', schema: 3, case: c }],
       ['a fractional schema', { format: 'clip-caliper-case', schema: 1.5, case: c }],
       ['no schema', { format: 'clip-caliper-case', case: c }],
-      ['an empty list', { format: 'clip-caliper-case', schema: 2, cases: [] }],
-      ['a long exportedBy', { format: 'clip-caliper-case', schema: 2, exportedBy: 'x'.repeat(201), case: c }],
+      ['an empty list', { format: 'clip-caliper-case', schema: 3, cases: [] }],
+      ['a long exportedBy', { format: 'clip-caliper-case', schema: 3, exportedBy: 'x'.repeat(201), case: c }],
       ['a list', [c]],
     ];
     for (const [name, file] of cases) {

@@ -5,7 +5,7 @@ import { contentKey, exportFileName, mergeCase, planImport } from '../../src/cas
 import { newCase, upsertMark, withAnnotation } from '../../src/case/marks';
 import { MAX_HISTORY, type CaseRecord } from '../../src/case/schema';
 import { CaseFormatError, MAX_MARKS_PER_CASE, validateCase } from '../../src/case/validate';
-import { markArb, v2RecordArb } from './arbitraries';
+import { markArb, recordArb } from './arbitraries';
 import { failure } from './expect-format-error';
 
 const video = { pageUrl: 'http://127.0.0.1:8000/plain.html', pageTitle: 'Invented clip', src: '', width: 640, height: 360, duration: 4 };
@@ -103,20 +103,20 @@ describe('case files of one or many cases', () => {
     (file.cases[1]!.marks[1]!.points[0] as { x: unknown }).x = 'left';
     (file.cases[2] as { status: unknown }).status = 'closed';
     expect(failure(() => parseCaseFileAll(JSON.stringify(file))).path).toBe('file.cases[1].marks[1].points[0].x');
-    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 2, case: base, cases: [base] }))).path).toBe('file');
-    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 2, cases: [] }))).path).toBe('file.cases');
-    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 3, case: base }))).message).toContain('newer');
-    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 2, case: { ...base, schema: 3 } }))).path).toBe('file.case.schema');
+    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 3, case: base, cases: [base] }))).path).toBe('file');
+    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 3, cases: [] }))).path).toBe('file.cases');
+    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 4, case: base }))).message).toContain('newer');
+    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 3, case: { ...base, schema: 4 } }))).path).toBe('file.case.schema');
     expect(failure(() => parseCaseFileAll('[]')).path).toBe('file');
   });
 
   it('size limits: whole file bytes (counted in UTF-8), cases per file, marks per case', () => {
     // 7 million three-byte characters: under the limit in length, over it in bytes
     expect(failure(() => parseCaseFileAll('€'.repeat(7_000_000))).message).toBe(`file: larger than ${MAX_CASE_FILE_BYTES} bytes (the limit for a case file)`);
-    const tooMany = { format: CASE_FILE_FORMAT, schema: 2, cases: Array.from({ length: MAX_CASES_PER_FILE + 1 }, () => 0) };
+    const tooMany = { format: CASE_FILE_FORMAT, schema: 3, cases: Array.from({ length: MAX_CASES_PER_FILE + 1 }, () => 0) };
     expect(failure(() => parseCaseFileAll(JSON.stringify(tooMany))).message).toBe(`file.cases: expected at most ${MAX_CASES_PER_FILE} cases, got ${MAX_CASES_PER_FILE + 1}`);
     const big = { ...base, marks: Array.from({ length: MAX_MARKS_PER_CASE + 1 }, (_, i) => markAt(`m${i}`, 1)) };
-    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 2, case: big }))).message).toBe(
+    expect(failure(() => parseCaseFileAll(JSON.stringify({ format: CASE_FILE_FORMAT, schema: 3, case: big }))).message).toBe(
       `file.case.marks: expected at most ${MAX_MARKS_PER_CASE} marks, got ${MAX_MARKS_PER_CASE + 1}`,
     );
   });
@@ -147,7 +147,7 @@ describe('file names by case and date', () => {
  * a merge or a clear rejection. "Stored" is a map the import may only read; what it would write
  * comes back as a plan, and applying the plan must keep every stored version somewhere.
  */
-const storedArb = fc.uniqueArray(v2RecordArb(), { selector: (c) => c.id, maxLength: 4 });
+const storedArb = fc.uniqueArray(recordArb(), { selector: (c) => c.id, maxLength: 4 });
 
 function applyPlan(stored: Map<string, CaseRecord>, text: string, now: number) {
   const incoming = parseCaseFileAll(text);
@@ -201,7 +201,7 @@ function mutateAt(root: unknown, pick: number, value: unknown): unknown {
 describe('import, property-based (fast-check)', () => {
   it('a good file merges: every stored and every imported version is kept, and the result is valid', () => {
     fc.assert(
-      fc.property(storedArb, fc.array(fc.nat(10), { maxLength: 4 }), fc.array(v2RecordArb(), { maxLength: 3 }), (stored, pickIds, fresh) => {
+      fc.property(storedArb, fc.array(fc.nat(10), { maxLength: 4 }), fc.array(recordArb(), { maxLength: 3 }), (stored, pickIds, fresh) => {
         const before = new Map(stored.map((c) => [c.id, c]));
         const frozen = clone([...before.entries()]);
         // the file holds edited copies of some stored cases and some new ones

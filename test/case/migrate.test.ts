@@ -5,7 +5,7 @@ import { parseCaseFile } from '../../src/case/casefile';
 import { MIGRATIONS, migrate, readCaseRecord } from '../../src/case/migrate';
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { validateCase } from '../../src/case/validate';
-import { v1RecordArb, v2RecordArb } from './arbitraries';
+import { recordArb, v1RecordArb, v2RecordArb } from './arbitraries';
 import { failure } from './expect-format-error';
 
 const fixture = (name: string) => readFileSync(`test/case/fixtures/v1/${name}`, 'utf8');
@@ -15,6 +15,23 @@ const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 describe('the migration list', () => {
   it('climbs one version at a time from 1 to the current schema', () => {
     expect(MIGRATIONS.map((m) => [m.from, m.to])).toEqual(Array.from({ length: SCHEMA_VERSION - 1 }, (_, i) => [i + 1, i + 2]));
+  });
+});
+
+describe('version 2 records (a fixture in the shape the version 2 code wrote, read by it)', () => {
+  it('logged-case.json migrates to a valid current record, keeping every field it had, its history too', () => {
+    const raw = JSON.parse(readFileSync('test/case/fixtures/v2/logged-case.json', 'utf8'));
+    const before = clone(raw);
+    const c = readCaseRecord(raw);
+    expect(c.schema).toBe(SCHEMA_VERSION);
+    const { schema: _s, history: _h, ...v2Fields } = before;
+    expect(c).toMatchObject(v2Fields);
+    expect(c.history).toHaveLength(1);
+    expect(c.history[0]!.schema).toBe(SCHEMA_VERSION);
+    expect(c.history[0]).toMatchObject({ notes: '', status: 'open', keptAt: 1764000100000 });
+    // a version 2 direction reads as it was: "same" still means one of the two ways, not said which
+    expect(c.assumptions!.direction).toBe('same');
+    expect(raw).toEqual(before);
   });
 });
 
@@ -95,7 +112,7 @@ describe('migrate', () => {
 
   it('property: a current record is returned as it is', () => {
     fc.assert(
-      fc.property(v2RecordArb(), (c) => {
+      fc.property(recordArb(), (c) => {
         expect(migrate(c)).toBe(c);
         expect(readCaseRecord(clone(c))).toEqual(c);
       }),

@@ -1,28 +1,40 @@
 import { laneCycleById, observerSpeedFromDashes } from '../engine/lanes';
+import type { AxisCode } from '../engine/pass-model';
+import { solvePass, type Conditioning, type PassHypothesis, type PassMarkFigures, type PassReading, type PassResult } from '../engine/pass-series';
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
 import { observationWindow } from '../engine/speed';
-import { solveSeries, type SeriesResult } from '../engine/series';
-import { solveTrack, type TrackResult } from '../engine/track-series';
 import type { Estimate } from '../engine/stats';
 import { solveFrame, type FrameResult, type RegimeShares } from '../engine/uncertainty';
 import { engineAssumptions, type EngineAssumptions } from './assumptions';
 import { cameraFrame, marksAt, spanInFrame, type FrameRect } from './frames';
+import { checkLandmarks, type LandmarkCheck } from './landmark-checks';
+import { allowedReadings, axisOf, fieldOfView, horizonAt, landmarkBody, LEVEL, passInputs, signsFor, type FieldOfView } from './pass-scene';
 import type { CaseRecord, Mark } from './schema';
 import { dimensionMismatch, mismatchText } from './size-match';
 
 /*
  * A case's figures from its marks and assumptions: what the popup shows and what the summary and
  * the command-line recompute will print. Pure: the same case and options give the same numbers.
+ *
+ * Two kinds of figure. Each marked frame alone gives a slant range from the span and an assumed
+ * aspect, and, with a landmark the object seems pinned over, that landmark's reading. Marks on
+ * several frames give the pass (pass-series.ts): a straight pass fitted to the spans with the aspect
+ * each frame's geometry gives, so ranges, the closest approach, the relative speed, the motionless
+ * point and the object's speed for each direction the marks and the user leave open. A landmark is
+ * weighed against all the rest (landmark-checks.ts) before its reading may settle anything.
  */
 
 export interface TimestampFigures {
   t: number;
   objectMark: Mark;
   spanPx: number;
+  /** this frame alone */
   result: FrameResult;
   landmarkMark: Mark | null;
   /** The regime most draws agree on, when a fixed point was computed. */
   regime: keyof RegimeShares | null;
+  /** this frame's figures from the pass, the aspect taken from the fitted geometry */
+  fitted: PassMarkFigures | null;
 }
 
 /** The observer's speed measured from lane-dash passes, when a cycle is chosen and passes are marked. */
@@ -38,11 +50,13 @@ export interface LaneSpeed {
 
 /** One reading of the object's ground speed, with what it rests on. */
 export interface SpeedReading {
-  /** Where the reading comes from: a pinned landmark, the range-over-time fit (per direction), or the ground track. */
+  /** Where the reading comes from: a landmark on the sight line, the pass for one direction, or a fixed camera's pass (with a heading). */
   basis: 'landmark' | 'fit-opposite' | 'fit-same-slower' | 'fit-same-faster' | 'track';
   /** The timestamp of a landmark reading. */
   t?: number;
   speed: Estimate;
+  /** The pass's reading behind it, with the motionless point for that direction. */
+  pass?: PassReading;
 }
 
 /** A verdict on one reading (with the wind assumed, if any). */
@@ -53,27 +67,70 @@ export interface JudgedReading {
   verdict: Verdict;
 }
 
+/** The pass, as the views show it: the figures of the sign that leads, and every sign's. */
+export interface PassSummary {
+  /** slant distance at closest approach */
+  closestApproach: Estimate;
+  /** horizontal distance at closest approach */
+  closestHorizontal: Estimate;
+  relativeSpeed: Estimate;
+  tClosest: Estimate;
+  axis: AxisCode;
+  lead: PassHypothesis;
+  result: PassResult;
+  conditioning: Conditioning;
+  draws: number;
+  seed: number;
+}
+
+/** A fixed camera's ground track: the pass with a heading. */
+export interface TrackSummary {
+  speed: Estimate;
+  /** rad, + to the right of the road ahead (as the assumptions give the aim) */
+  heading: Estimate;
+  /** horizontal distance at closest approach */
+  closestApproach: Estimate;
+  residualRms: null;
+  draws: number;
+  seed: number;
+}
+
+export type WarningCode =
+  | 'landmark'
+  | 'ill-conditioned'
+  | 'elevation-assumed'
+  | 'portrait-field'
+  | 'direction-unsupported'
+  | 'mixed-dimensions';
+
+export interface CaseWarning {
+  code: WarningCode;
+  text: string;
+}
+
 export interface CaseAnalysis {
   assumptions: EngineAssumptions;
   /** Set when the observer speed in `assumptions` was measured from lane dashes. */
   laneSpeed: LaneSpeed | null;
   laneSpeedMissing: string | null;
   frame: FrameRect;
+  field: FieldOfView;
   timestamps: TimestampFigures[];
-  series: SeriesResult | null;
-  /** Why there is no range-over-time fit, in one line, when there is none. */
+  series: PassSummary | null;
+  /** Why there is no pass, in one line, when there is none. */
   seriesMissing: string | null;
   /** Fixed-camera ground track, when the camera kept its aim and 2 or more timestamps are marked. */
-  track: TrackResult | null;
-  /** Why there is no ground track, in one line. */
+  track: TrackSummary | null;
   trackMissing: string | null;
   /**
-   * The object's ground speed readings, in order of what they rest on: a landmark first (it settles
-   * the direction), then the ground track, then the fit's readings for each direction of travel the
-   * direction assumption leaves open ("unknown" keeps them all: both answers).
+   * The object's ground speed readings that may be judged, in order of what they rest on: a
+   * landmark that passed every check, then the ground track, then the pass's readings for each
+   * direction the marks and the user leave open.
    */
   readings: SpeedReading[];
-  /** A verdict per reading that can be judged: several when the direction is not settled. */
+  /** Landmark readings set aside because the landmark cannot be the motionless point. */
+  setAside: { reading: SpeedReading; check: LandmarkCheck }[];
+  landmarkChecks: LandmarkCheck[];
   verdicts: JudgedReading[];
   verdictMissing: string | null;
   /**
@@ -84,6 +141,8 @@ export interface CaseAnalysis {
   window: { halfAngle: number; estimate: Estimate; clipLength: number | null } | null;
   /** Marks that could not be solved, with the reason (an end outside the camera frame, say). */
   problems: string[];
+  /** What weakens or contradicts the figures, each named, in plain words. */
+  warnings: CaseWarning[];
   /** When the object's spans were marked as another dimension than the size assumed (size-match.ts), in one sentence. */
   dimensionMismatch: string | null;
 }
@@ -95,93 +154,150 @@ export interface AnalysisOptions {
   seed?: number;
 }
 
+const SAME_FRAME_S = 1 / 48;
+
 export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseAnalysis {
-  const given = engineAssumptions(c.assumptions);
+  const given = engineAssumptions(c.assumptions, c.marks);
   const mismatch = dimensionMismatch(c.marks, c.assumptions);
   const lanes = measuredObserverSpeed(c, given.laneCycleId);
   // a speed measured from the clip stands in for the one given
   const a = lanes.speed ? { ...given, observerSpeed: { lo: lanes.speed.speed.lo, hi: lanes.speed.speed.hi } } : given;
   const frame = cameraFrame(c.marks, c.video.width, c.video.height);
+  const field = fieldOfView(a, frame);
   const draws = options.draws ?? 20_000;
   const seed = options.seed ?? 1;
   const frameSize = { widthPx: frame.right - frame.left, heightPx: frame.bottom - frame.top };
-  const objects = c.marks.filter((m) => m.kind === 'object-span').sort((x, y) => x.t - y.t);
+  const warnings: CaseWarning[] = [];
+  if (field.note) warnings.push({ code: 'portrait-field', text: field.note });
+
+  const allObjects = c.marks.filter((m) => m.kind === 'object-span').sort((x, y) => x.t - y.t);
   const problems: string[] = [];
   const timestamps: TimestampFigures[] = [];
-  for (const m of objects) {
+  for (const m of allObjects) {
     const landmark = marksAt(c.marks, m.t).find((x) => x.kind === 'landmark-span') ?? null;
+    const horizon = a.fixedCamera ? null : horizonAt(c.marks, m.t, frame);
     try {
       const result = solveFrame(
         {
           frame: frameSize,
-          hfov: a.hfov,
-          object: { span: spanInFrame(m, frame), size: a.objectSize, aspect: a.aspect },
-          ...(landmark ? { landmark: { span: spanInFrame(landmark, frame), size: a.landmarkSize, aspect: a.aspect } } : {}),
+          hfov: field.hfov,
+          object: { span: spanInFrame(m, frame), size: a.objectSize, aspect: m.dimension === 'other' ? { lo: Math.PI / 2, hi: Math.PI / 2 } : a.aspect },
+          ...(landmark ? { landmark: landmarkBody(landmark, a, frame) } : {}),
           ...(a.observerSpeed ? { observerSpeed: a.observerSpeed } : {}),
+          ...(horizon ? { horizon } : {}),
+          ...(a.fixedCamera ? { pitch: a.fixedCamera.pitch ?? LEVEL } : {}),
+          ...(a.elevation ? { elevation: a.elevation } : {}),
+          cameraHeight: a.cameraHeight,
         },
         { draws, seed },
       );
       const [p, q] = m.points;
-      timestamps.push({ t: m.t, objectMark: m, spanPx: Math.hypot(q!.x - p!.x, q!.y - p!.y), result, landmarkMark: landmark, regime: majority(result.regimeShares) });
+      timestamps.push({ t: m.t, objectMark: m, spanPx: Math.hypot(q!.x - p!.x, q!.y - p!.y), result, landmarkMark: landmark, regime: majority(result.regimeShares), fitted: null });
     } catch (err) {
       problems.push(`object ends at ${m.t.toFixed(3)} s: ${(err as Error).message}`);
     }
   }
 
-  let series: SeriesResult | null = null;
+  // the pass: one span per frame, all of the dimension most of them were marked as
+  const counts = new Map<Mark['dimension'], number>();
+  for (const m of allObjects) counts.set(m.dimension, (counts.get(m.dimension) ?? 0) + 1);
+  const dimension = [...counts.entries()].reduce<[Mark['dimension'], number] | null>((best, e) => (!best || e[1] > best[1] ? e : best), null)?.[0];
+  if (counts.size > 1) {
+    warnings.push({ code: 'mixed-dimensions', text: `The object's spans were marked as ${counts.size} different dimensions: the pass uses only the ${dimension ?? 'unnamed'} spans (${counts.get(dimension)} of ${allObjects.length}).` });
+  }
+  const objects = allObjects.filter((m, i, arr) => m.dimension === dimension && (i === 0 || m.t - arr[i - 1]!.t >= SAME_FRAME_S));
+  const needed = a.fixedCamera ? 2 : 3;
+  let series: PassSummary | null = null;
   let seriesMissing: string | null = null;
-  const distinct = objects.filter((m, i) => i === 0 || m.t - objects[i - 1]!.t >= 1 / 48);
-  if (distinct.length < 3) {
-    seriesMissing = `A range-over-time fit needs the object's ends marked at 3 or more timestamps (${distinct.length} so far).`;
+  let track: TrackSummary | null = null;
+  let trackMissing: string | null = a.fixedCamera ? null : 'A ground track needs a camera that kept its aim (a tripod, or a mount fixed to the vehicle): say so in the assumptions.';
+  const axis = axisOf(dimension);
+  if (objects.length < needed) {
+    seriesMissing = `The pass needs the object's ends marked at ${needed} or more timestamps (${objects.length} so far).`;
+    if (a.fixedCamera) trackMissing = `A ground track needs the object’s ends marked at 2 or more timestamps (${objects.length} so far).`;
+  } else if (a.fixedCamera?.mount === 'vehicle' && !a.observerSpeed) {
+    seriesMissing = trackMissing = 'A ground track from a moving vehicle needs the observer’s speed (given, or measured from lane dashes).';
   } else {
+    const inputs = passInputs(objects, c.marks, a, field.hfov, frame, axis);
     try {
-      series = solveSeries(
-        {
-          frame: frameSize,
-          hfov: a.hfov,
-          object: { size: a.objectSize, aspect: a.aspect },
-          marks: distinct.map((m) => ({ t: m.t, span: spanInFrame(m, frame) })),
-          ...(a.observerSpeed ? { observerSpeed: a.observerSpeed } : {}),
-        },
-        { draws: options.seriesDraws ?? 2_000, seed },
-      );
+      const result = solvePass(inputs.scene, signsFor(a.direction), { draws: options.seriesDraws ?? 2_000, seed });
+      const lead = result.hypotheses.find((h) => !h.ruledOut) ?? result.hypotheses[0]!;
+      series = {
+        closestApproach: lead.closestSlant,
+        closestHorizontal: lead.closestHorizontal,
+        relativeSpeed: lead.relativeSpeed,
+        tClosest: lead.tClosest,
+        axis,
+        lead,
+        result,
+        conditioning: result.conditioning,
+        draws: result.draws,
+        seed: result.seed,
+      };
+      for (const ts of timestamps) {
+        const k = objects.findIndex((m) => m.id === ts.objectMark.id);
+        if (k >= 0) ts.fitted = lead.marks[k] ?? null;
+      }
+      warnings.push(...passWarnings(series, a, objects));
     } catch (err) {
-      seriesMissing = `No range-over-time fit: ${(err as Error).message}`;
+      seriesMissing = `No pass: ${(err as Error).message}`;
+      if (a.fixedCamera) trackMissing = `No ground track: ${(err as Error).message}`;
     }
   }
 
-  let track: TrackResult | null = null;
-  let trackMissing: string | null = null;
-  if (!a.fixedCamera) trackMissing = 'A ground track needs a camera that kept its aim (a tripod, or a mount fixed to the vehicle): say so in the assumptions.';
-  else if (distinct.length < 2) trackMissing = `A ground track needs the object’s ends marked at 2 or more timestamps (${distinct.length} so far).`;
-  else if (a.fixedCamera.mount === 'vehicle' && !a.observerSpeed) trackMissing = 'A ground track from a moving vehicle needs the observer’s speed (given, or measured from lane dashes).';
-  else {
-    try {
-      track = solveTrack(
-        {
-          frame: frameSize,
-          hfov: a.hfov,
-          object: { size: a.objectSize, aspect: a.aspect },
-          marks: distinct.map((m) => ({ t: m.t, span: spanInFrame(m, frame) })),
-          axisHeading: a.fixedCamera.axisHeading,
-          cameraSpeed: a.fixedCamera.mount === 'tripod' ? { lo: 0, hi: 0 } : a.observerSpeed!,
-        },
-        { draws: options.trackDraws ?? 1_000, seed },
-      );
-    } catch (err) {
-      trackMissing = `No ground track: ${(err as Error).message}`;
+  // landmarks, each weighed before its reading may settle anything
+  const atFrames = timestamps
+    .filter((ts) => ts.landmarkMark)
+    .map((ts) => ({
+      landmark: ts.landmarkMark!,
+      object: ts.objectMark,
+      ...(ts.result.regimeShares ? { regimeShares: ts.result.regimeShares } : {}),
+      ...(series ? { fit: series.lead.landmarks.find((l) => Math.abs(l.t - ts.t) < SAME_FRAME_S) } : {}),
+    }));
+  const landmarkChecks = checkLandmarks(atFrames, a.direction);
+  const readings: SpeedReading[] = [];
+  const setAside: CaseAnalysis['setAside'] = [];
+  for (const check of landmarkChecks) {
+    const ts = timestamps.find((x) => x.landmarkMark === check.mark)!;
+    const fitSpeed = series?.lead.landmarks.find((l) => Math.abs(l.t - ts.t) < SAME_FRAME_S)?.impliedSpeed ?? null;
+    const signed = fitSpeed ?? ts.result.impliedSpeed;
+    if (!signed) continue;
+    const reading: SpeedReading = { basis: 'landmark', t: ts.t, speed: magnitude(signed) };
+    if (check.problems.length > 0) {
+      setAside.push({ reading, check });
+      warnings.push({ code: 'landmark', text: `The landmark at ${ts.t.toFixed(3)} s cannot be the motionless point, so its reading is set aside: ${check.problems.map((p) => p.text).join(' ')}` });
+    } else readings.push(reading);
+  }
+  if (series) {
+    const allowed = allowedReadings(a.direction);
+    for (const h of series.result.hypotheses) {
+      if (h.ruledOut) continue;
+      for (const r of h.readings) {
+        if (!allowed.includes(r.direction)) continue;
+        if (a.fixedCamera) {
+          if (!track) track = trackSummary(r, series);
+          readings.push({ basis: 'track', speed: r.speed, pass: r });
+        } else readings.push({ basis: `fit-${r.direction}`, speed: r.speed, pass: r });
+      }
+    }
+    if (a.observerSpeed && !readings.some((r) => r.basis !== 'landmark')) {
+      warnings.push({
+        code: 'direction-unsupported',
+        text: `The ranges over time do not allow the direction you gave (${a.direction}): the relative speed ${fmt(series.relativeSpeed)} m/s and the observer's ${(((a.observerSpeed.lo + a.observerSpeed.hi) / 2)).toFixed(1)} m/s do not combine that way. Check the direction, the observer's speed and the size.`,
+      });
     }
   }
 
-  const readings = speedReadings(timestamps, track, series, a.direction);
   const verdicts: JudgedReading[] = [];
   let verdictMissing: string | null = null;
   if (readings.length === 0) {
-    verdictMissing = !a.observerSpeed && !track
-      ? 'A verdict needs the observer’s speed (given, or measured from lane dashes).'
-      : 'A verdict needs an object speed: a landmark the object seems pinned over (marked on the same frame as its ends), 3 or more timestamps for the fit, or a fixed camera’s ground track.';
+    verdictMissing = setAside.length > 0
+      ? 'No verdict: the only landmark reading was set aside (it cannot be the motionless point), and the marks give no other speed.'
+      : !a.observerSpeed && !a.fixedCamera
+        ? 'A verdict needs the observer’s speed (given, or measured from lane dashes).'
+        : 'A verdict needs an object speed: a landmark the object seems pinned over (marked on the same frame as its ends), 3 or more timestamps for the pass, or a fixed camera’s ground track.';
   } else {
-    // a landmark or a ground track settles the direction; only the fit's readings come one per direction
+    // a landmark that passed every check, or a ground track, settles the direction; the pass's readings come one per direction
     const judged = readings[0]!.basis === 'landmark' || readings[0]!.basis === 'track' ? [readings[0]!] : readings;
     for (const reading of judged) {
       const airspeed = withHeadwind(reading.speed, a.headwind);
@@ -192,61 +308,81 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
       }
     }
   }
-  let window: CaseAnalysis['window'] = null;
-  if (series && series.closestApproach.median > 0 && series.relativeSpeed.p05 > 0) {
-    const A = (a.hfov.lo + a.hfov.hi) / 4; // half of the middle field of view
-    try {
-      window = {
-        halfAngle: A,
-        estimate: {
-          // a closest approach that may be zero (a collision course) lets the window shrink to nothing
-          p05: series.closestApproach.p05 > 0 ? observationWindow(series.closestApproach.p05, series.relativeSpeed.p95, A) : 0,
-          median: observationWindow(series.closestApproach.median, series.relativeSpeed.median, A),
-          p95: observationWindow(series.closestApproach.p95, series.relativeSpeed.p05, A),
-        },
-        clipLength: c.video.duration,
-      };
-    } catch {
-      window = null;
-    }
-  }
   return {
     assumptions: a,
     laneSpeed: lanes.speed,
     laneSpeedMissing: lanes.missing,
     frame,
+    field,
     timestamps,
     series,
     seriesMissing,
     track,
     trackMissing,
     readings,
+    setAside,
+    landmarkChecks,
     verdicts,
     verdictMissing,
-    window,
+    window: observation(series, field, c.video.duration),
     problems,
+    warnings,
     dimensionMismatch: mismatch ? mismatchText(mismatch) : null,
   };
 }
 
-/** The readings in the order CaseAnalysis.readings documents, the fit's filtered by the direction assumed. */
-function speedReadings(
-  timestamps: readonly TimestampFigures[],
-  track: TrackResult | null,
-  series: SeriesResult | null,
-  direction: EngineAssumptions['direction'],
-): SpeedReading[] {
-  const out: SpeedReading[] = [];
-  const pinned = timestamps.find((x) => x.result.impliedSpeed);
-  if (pinned) out.push({ basis: 'landmark', t: pinned.t, speed: magnitude(pinned.result.impliedSpeed!) });
-  if (track) out.push({ basis: 'track', speed: track.speed });
-  const o = series?.objectSpeed;
-  if (o) {
-    if (o.opposite && direction !== 'same') out.push({ basis: 'fit-opposite', speed: o.opposite });
-    if (o.sameSlower && direction !== 'opposite') out.push({ basis: 'fit-same-slower', speed: o.sameSlower });
-    if (o.sameFaster && direction !== 'opposite') out.push({ basis: 'fit-same-faster', speed: o.sameFaster });
+function fmt(e: Estimate): string {
+  return `${e.median.toFixed(1)} (5-95 %: ${e.p05.toFixed(1)} to ${e.p95.toFixed(1)})`;
+}
+
+/** What weakens the pass: a fit the marks barely settle, and an elevation nothing in the frame gives. */
+function passWarnings(s: PassSummary, a: EngineAssumptions, objects: readonly Mark[]): CaseWarning[] {
+  const out: CaseWarning[] = [];
+  const c = s.conditioning;
+  if (c.ill) {
+    const when =
+      c.settleBefore !== null && c.settleAfter !== null
+        ? ` Marks before ${Math.max(0, c.settleBefore).toFixed(1)} s or after ${c.settleAfter.toFixed(1)} s (where the span should differ by enough from its largest) would settle it.`
+        : ' Marks farther from the moment of closest approach would settle it.';
+    out.push({
+      code: 'ill-conditioned',
+      text: `The object's span changes by only ${(100 * c.spanChange).toFixed(1)} % over the marked frames, against about ${(100 * c.spanNoise).toFixed(1)} % uncertainty each: the relative speed is barely settled (its interval is ${(100 * c.relativeSpread).toFixed(0)} % of its median wide).${when}`,
+    });
+  }
+  if (s.result.elevationSources.every((x) => x === 'assumed')) {
+    out.push({
+      code: 'elevation-assumed',
+      text: a.elevation
+        ? `No horizon, landmark foot or camera pitch gives the object's elevation on the ${objects.length} marked frames: horizontal distances use the elevation assumed.`
+        : `No horizon, landmark foot or camera pitch gives the object's elevation on the ${objects.length} marked frames: horizontal distances allow any elevation from 0 to 60 deg, so they are wide. Mark the horizon on a frame with the object's ends to narrow them.`,
+    });
   }
   return out;
+}
+
+function trackSummary(r: PassReading, s: PassSummary): TrackSummary {
+  // the engine's headings are + to the left; the assumptions' aim, + to the right
+  const h = r.heading;
+  return { speed: r.speed, heading: { p05: -h.p95, median: -h.median, p95: -h.p05 }, closestApproach: s.closestHorizontal, residualRms: null, draws: s.draws, seed: s.seed };
+}
+
+function observation(series: PassSummary | null, field: FieldOfView, clipLength: number | null): CaseAnalysis['window'] {
+  if (!series || !(series.closestApproach.median > 0) || !(series.relativeSpeed.p05 > 0)) return null;
+  const A = (field.hfov.lo + field.hfov.hi) / 4; // half of the middle field of view
+  try {
+    return {
+      halfAngle: A,
+      estimate: {
+        // a closest approach that may be zero (a collision course) lets the window shrink to nothing
+        p05: series.closestApproach.p05 > 0 ? observationWindow(series.closestApproach.p05, series.relativeSpeed.p95, A) : 0,
+        median: observationWindow(series.closestApproach.median, series.relativeSpeed.median, A),
+        p95: observationWindow(series.closestApproach.p95, series.relativeSpeed.p05, A),
+      },
+      clipLength,
+    };
+  } catch {
+    return null;
+  }
 }
 
 /**

@@ -9,11 +9,21 @@ export interface FrameRect {
 }
 
 export function cameraFrame(marks: readonly Mark[], videoWidth: number, videoHeight: number): FrameRect {
-  // the latest frame-edges mark wins: the presentation does not change within a clip
+  // the latest mark of each wins: the presentation does not change within a clip
   const edges = [...marks].reverse().find((m) => m.kind === 'frame-edges');
-  if (!edges) return { left: 0, right: videoWidth, top: 0, bottom: videoHeight };
-  const [a, b] = edges.points as [Point, Point];
-  return { left: Math.min(a.x, b.x), right: Math.max(a.x, b.x), top: 0, bottom: videoHeight };
+  const rows = [...marks].reverse().find((m) => m.kind === 'frame-top-bottom');
+  const frame = { left: 0, right: videoWidth, top: 0, bottom: videoHeight };
+  if (edges) {
+    const [a, b] = edges.points as [Point, Point];
+    frame.left = Math.min(a.x, b.x);
+    frame.right = Math.max(a.x, b.x);
+  }
+  if (rows) {
+    const [a, b] = rows.points as [Point, Point];
+    frame.top = Math.min(a.y, b.y);
+    frame.bottom = Math.max(a.y, b.y);
+  }
+  return frame;
 }
 
 /** Marks that belong to the frame at time t (the same paused frame: within half a frame at 24 fps). */

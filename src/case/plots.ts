@@ -9,7 +9,7 @@ export interface RangePlot {
   range: { min: number; max: number; ticks: number[] };
   /** Each timestamp's range with its 5-95 % interval. */
   points: { t: number; p05: number; median: number; p95: number }[];
-  /** The fitted pass R(t) = sqrt(D'^2 + V^2 (t - t0)^2) at the median parameters. */
+  /** The fitted pass R(t) = sqrt(D'^2 + V^2 (t - t0)^2) at the median parameters (slant ranges). */
   curve: { t: number; r: number }[];
   /** One sentence saying what the picture shows, for those who cannot see it. */
   description: string;
@@ -17,7 +17,11 @@ export interface RangePlot {
 
 export function rangePlot(a: CaseAnalysis, samples = 60): RangePlot | null {
   if (!a.series || a.timestamps.length < 3) return null;
-  const pts = a.timestamps.map((x) => ({ t: x.t, p05: x.result.range.p05, median: x.result.range.median, p95: x.result.range.p95 }));
+  // the pass's ranges where it has them: a frame alone takes one aspect for every frame
+  const pts = a.timestamps.map((x) => {
+    const r = x.fitted?.range ?? x.result.range;
+    return { t: x.t, p05: r.p05, median: r.median, p95: r.p95 };
+  });
   const Dp = a.series.closestApproach.median;
   const V = a.series.relativeSpeed.median;
   const t0 = a.series.tClosest.median;
@@ -93,49 +97,54 @@ export function planView(a: CaseAnalysis, direction?: PlanView['direction']): Pl
   const s = a.series;
   const u = a.assumptions.observerSpeed;
   if (!u) return null;
-  if (!s || a.timestamps.length < 2) return singleFramePlan(a, (u.lo + u.hi) / 2);
-  const speeds = s.objectSpeed ?? {};
-  const pick =
-    direction ?? (speeds.opposite ? 'opposite' : speeds.sameSlower ? 'same-slower' : speeds.sameFaster ? 'same-faster' : null);
-  if (!pick) return null;
-  const est = pick === 'opposite' ? speeds.opposite : pick === 'same-slower' ? speeds.sameSlower : speeds.sameFaster;
-  if (!est) return null;
+  if (!s) return singleFramePlan(a, (u.lo + u.hi) / 2);
+  const passReadings = a.readings.filter((x) => x.pass).map((x) => x.pass!);
+  const reading = (direction ? passReadings.find((r) => r.direction === direction) : undefined) ?? passReadings[0];
+  if (!reading) return null;
+  const hyp = s.result.hypotheses.find((h) => h.readings.includes(reading));
+  if (!hyp) return null;
   const uM = (u.lo + u.hi) / 2;
-  const D = s.closestApproach.median;
-  const V = s.relativeSpeed.median;
-  const t0 = s.tClosest.median;
-  // along the road the object moves at -V relative to the observer when it flies the other way or
-  // the same way but slower, at +V when faster; its ground speed is then w = u + rel
-  const rel = pick === 'same-faster' ? V : -V;
-  const w = uM + rel;
-  const sightLines = a.timestamps.map(({ t }) => {
-    const ox = uM * t;
-    return { t, observer: { x: ox, y: 0 }, object: { x: ox + rel * (t - t0), y: D } };
+  const sightLines = hyp.marks.map((m) => {
+    const ox = uM * m.t;
+    return { t: m.t, observer: { x: ox, y: 0 }, object: { x: ox + m.x.median, y: m.y.median } };
   });
-  // s = u / (u - w) = -u / rel of the way from observer to object
-  const sFix = rel === 0 ? null : -uM / rel;
-  const first = sightLines[0]!;
+  const fp = reading.fixedPoint;
+  const ref = fp ? sightLines.find((l) => Math.abs(l.t - fp.t) < 1e-9) : undefined;
+  const frac = fp?.fraction.median;
   const fixedPoint =
-    sFix === null || sFix <= 0
-      ? null
-      : { x: first.observer.x + sFix * (first.object.x - first.observer.x), y: sFix * D, fromRoad: sFix * D };
+    fp && ref && frac !== undefined && Number.isFinite(frac)
+      ? { x: ref.observer.x + frac * (ref.object.x - ref.observer.x), y: frac * ref.object.y, fromRoad: fp.fromRoad.median }
+      : null;
+  const refMark = hyp.marks[Math.floor((hyp.marks.length - 1) / 2)]!;
+  const D = refMark.y.median;
   const xs = sightLines.flatMap((l) => [l.observer.x, l.object.x]).concat(fixedPoint ? [fixedPoint.x] : []);
-  const ys = [0, D].concat(fixedPoint ? [fixedPoint.y] : []);
-  const pad = Math.max(Math.max(...xs) - Math.min(...xs), Math.max(...ys)) * 0.08 || 10;
+  const ys = [0, ...sightLines.map((l) => l.object.y)].concat(fixedPoint ? [fixedPoint.y] : []);
+  const pad = Math.max(Math.max(...xs) - Math.min(...xs), Math.max(...ys) - Math.min(...ys)) * 0.08 || 10;
+  const regime = majorityRegime(reading.regimeShares);
   const where =
-    fixedPoint === null ? 'no point on the ground stays still' : sFix! < 1 ? 'between the road and the track' : 'beyond the track';
+    regime === 'behind'
+      ? 'behind the observer, out of view'
+      : regime === 'none' || !fixedPoint
+        ? 'nowhere: the bearing does not change'
+        : regime === 'between'
+          ? 'between the road and the track'
+          : 'beyond the track';
   return {
-    direction: pick,
+    direction: reading.direction,
     trackDistance: D,
     observerSpeed: uM,
-    objectSpeed: w,
+    objectSpeed: reading.alongRoad.median,
     sightLines,
     fixedPoint,
-    trackBand: { lo: s.closestApproach.p05, hi: s.closestApproach.p95 },
-    bounds: { xMin: Math.min(...xs) - pad, xMax: Math.max(...xs) + pad, yMin: Math.min(...ys) - pad, yMax: Math.max(s.closestApproach.p95, ...ys) + pad },
+    trackBand: { lo: refMark.y.p05, hi: refMark.y.p95 },
+    bounds: { xMin: Math.min(...xs) - pad, xMax: Math.max(...xs) + pad, yMin: Math.min(...ys) - pad, yMax: Math.max(refMark.y.p95, ...ys) + pad },
     mode: 'pass',
-    description: `Plan view to scale: the observer's road, the object's track ${D.toFixed(0)} m away, ${sightLines.length} sight lines; reading the object as flying ${pick.replace('-', ' and ')}, the motionless point lies ${where}${fixedPoint ? `, ${fixedPoint.fromRoad.toFixed(0)} m from the road` : ''}.`,
+    description: `Plan view to scale: the observer's road; the object's track, ${D.toFixed(0)} m from the road (horizontal, square to the road) at ${refMark.t.toFixed(2)} s; ${sightLines.length} sight lines. Reading the object as flying ${reading.direction.replace('-', ' and ')}, the motionless point lies ${where}${fixedPoint && regime !== 'behind' ? `, ${fixedPoint.fromRoad.toFixed(0)} m from the road` : regime === 'behind' && fp ? `, ${Math.abs(fp.horizontalDistance.median).toFixed(0)} m behind the camera along the sight line` : ''}.`,
   };
+}
+
+function majorityRegime(s: { between: number; beyond: number; behind: number; none: number }): 'between' | 'beyond' | 'behind' | 'none' {
+  return (Object.keys(s) as ('between' | 'beyond' | 'behind' | 'none')[]).reduce((a, b) => (s[b] > s[a] ? b : a));
 }
 
 /**

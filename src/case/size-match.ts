@@ -1,4 +1,4 @@
-import { defaultAssumptions } from './assumptions';
+import { defaultAssumptions, isDefaultSize } from './assumptions';
 import type { CaseAssumptions, Mark } from './schema';
 
 /*
@@ -18,9 +18,15 @@ export interface DimensionMismatch {
   of: number;
 }
 
-/** Which dimension the assumed size is (a case without assumptions has the defaults: a wingspan); null when it does not say. */
+/**
+ * Which dimension the assumed size is; null when it does not say, or when it is the tool's default
+ * size, which follows whatever the spans are marked as (assumptions.ts sizeForMarks), so that a
+ * default never warns.
+ */
 export function assumedDimension(a: CaseAssumptions | undefined): SpanDimension | null {
-  return (a ?? defaultAssumptions()).sizeDimension ?? null;
+  const given = a ?? defaultAssumptions();
+  if (isDefaultSize(given)) return null;
+  return given.sizeDimension ?? null;
 }
 
 /**

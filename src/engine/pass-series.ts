@@ -1,7 +1,7 @@
 import { MAX_SPEED_MS } from './constants';
 import { InputError, UndeterminedError } from './errors';
 import { drawValues, fillDraw, NOMINAL, randomPicker, spanSigmas, type PassScene } from './pass-inputs';
-import { FIT_REPORT, FitOutcome, fitPass, passData, Q, startFromSpans, toPhysical, type PassData } from './pass-fit';
+import { FIT_REPORT, FIT_TOLERANCE, FitOutcome, fitPass, passData, Q, startFromSpans, toPhysical, type PassData } from './pass-fit';
 import { aspectSine, closestApproach, fixedPointFractionAt, P, PASS_PARAMS, relativePosition } from './pass-model';
 import { Rng } from './rng';
 import { summarize, type Estimate } from './stats';
@@ -235,7 +235,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     q[Q.lnRho]! += Math.log(scale);
     q[Q.lnV]! += Math.log(scale);
     q[Q.xr] = q[Q.xr]! * scale;
-    if (fitPass(d, q, sgn, mask, report) === FitOutcome.FAILED) continue;
+    if (fitPass(d, q, sgn, mask, report, FIT_TOLERANCE.BOOTSTRAP) === FitOutcome.FAILED) continue;
     kept++;
     toPhysical(q, sgn, d.u, phys);
     const u = d.u;

@@ -370,7 +370,9 @@ describe('headline figure', () => {
   });
 
   it('prefers the implied speed when a landmark and the observer speed give one; shown as a magnitude', () => {
-    let c = invented([span('o1', 'object-span', 1, 620, 660), span('l1', 'landmark-span', 1, 600, 700)]);
+    // an upright landmark under the object's centre, its foot lower in the picture
+    const mast = { ...span('l1', 'landmark-span', 1, 640, 640), points: [{ x: 640, y: 520 }, { x: 640, y: 420 }] };
+    let c = invented([span('o1', 'object-span', 1, 620, 660), mast]);
     c = withAssumptions(c, { ...c.assumptions!, landmarkSizeM: { lo: 10, hi: 12 }, observerSpeedMs: { lo: 24, hi: 26 } }, 4);
     const h = caseHeadline(c)!;
     expect(h.quantity).toBe('speed');

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { niceTicks, planView, rangePlot } from '../../src/case/plots';
-import type { CaseAnalysis } from '../../src/case/analysis';
+import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
+import { inventedPassCase } from './invented-pass';
 
 const est = (m: number, w = 0.1) => ({ p05: m * (1 - w), median: m, p95: m * (1 + w) });
 
@@ -46,50 +47,47 @@ describe('range-over-time plot model', () => {
 });
 
 describe('plan view model', () => {
-  // invented pass: observer at 25 m/s, relative speed 95 m/s, closest approach 1000 m at t0 = 1.6 s
-  const a = {
-    assumptions: { observerSpeed: { lo: 25, hi: 25 } },
-    timestamps: [0.3, 0.9, 1.5, 2.1].map((t) => ({ t, result: { range: { p05: 1, median: 1, p95: 1 } } })),
-    series: {
-      closestApproach: { p05: 990, median: 1000, p95: 1010 },
-      relativeSpeed: { p05: 94, median: 95, p95: 96 },
-      tClosest: { p05: 1.5, median: 1.6, p95: 1.7 },
-      objectSpeed: { opposite: { p05: 69, median: 70, p95: 71 }, sameFaster: { p05: 119, median: 120, p95: 121 } },
-    },
-  } as unknown as CaseAnalysis;
+  // an invented pass marked the long way (invented-pass.ts): observer 25 m/s, object 70 m/s the
+  // other way, 1000 m from the road, 120 m above the camera, abeam at 8 s
+  const pass = { u: 25, w: -70, D: 1000, h: 120, tAbeam: 8, L: 38, hfovDeg: 30, times: [1, 3.5, 6, 8.5, 11, 13.5] };
+  const a = analyseCase(inventedPassCase(pass), { draws: 500, seriesDraws: 300 });
 
   it('opposite directions: every sight line passes through one ground point, D u / (u - w) from the road', () => {
-    const p = planView(a)!;
+    const p = planView(a, 'opposite')!;
     expect(p.direction).toBe('opposite');
-    expect(p.objectSpeed).toBeCloseTo(-70, 9);
+    expect(p.objectSpeed).toBeCloseTo(-70, 0);
     // D u / (u - w) = 1000 x 25 / 95 = 263.2 m (DESIGN.md, parallel tracks)
-    expect(p.fixedPoint!.fromRoad).toBeCloseTo((1000 * 25) / 95, 6);
+    expect(p.fixedPoint!.fromRoad / ((1000 * 25) / 95)).toBeCloseTo(1, 2);
     for (const l of p.sightLines) {
       // the point on this sight line at the fixed point's distance from the road is the fixed point
       const k = p.fixedPoint!.y / l.object.y;
       const x = l.observer.x + k * (l.object.x - l.observer.x);
-      expect(x).toBeCloseTo(p.fixedPoint!.x, 6);
+      expect(Math.abs(x - p.fixedPoint!.x)).toBeLessThan(3);
     }
+    expect(p.trackDistance / 1000).toBeCloseTo(1, 2);
     expect(p.description).toContain('between the road and the track');
+    expect(p.description).toContain('horizontal, square to the road');
   });
 
-  it('a faster object in the same direction leaves no motionless point in view', () => {
+  it('a faster object in the same direction: the motionless point is behind the observer, and it says so (issue 12, point 4)', () => {
     const p = planView(a, 'same-faster')!;
-    expect(p.objectSpeed).toBeCloseTo(120, 9);
-    expect(p.fixedPoint).toBeNull();
-    expect(p.description).toContain('no point on the ground stays still');
+    // w = u + V = 25 + 95
+    expect(p.objectSpeed).toBeCloseTo(120, 0);
+    expect(p.description).toContain('behind the observer, out of view');
+    expect(p.description).not.toContain('no point on the ground stays still');
   });
 
-  it('draws the 5-95 % band of the track’s distance from the fit', () => {
-    const p = planView(a)!;
+  it('draws the 5-95 % band of the track’s distance from the road', () => {
+    const p = planView(a, 'opposite')!;
     expect(p.mode).toBe('pass');
-    expect(p.trackBand).toEqual({ lo: a.series!.closestApproach.p05, hi: a.series!.closestApproach.p95 });
+    expect(p.trackBand.lo).toBeLessThanOrEqual(1000);
+    expect(p.trackBand.hi).toBeGreaterThanOrEqual(1000);
     expect(p.bounds.yMax).toBeGreaterThan(p.trackBand.hi);
   });
 
   it('one frame with a pinned landmark: one sight line drawn abeam, the landmark as the motionless point', () => {
     const single = {
-      ...a,
+      assumptions: { observerSpeed: { lo: 25, hi: 25 } },
       series: null,
       timestamps: [
         {
@@ -114,7 +112,7 @@ describe('plan view model', () => {
   });
 
   it('needs the fit or a pinned landmark, and the observer speed', () => {
-    expect(planView({ ...a, series: null } as unknown as CaseAnalysis)).toBeNull();
+    expect(planView({ ...a, series: null, timestamps: [] } as unknown as CaseAnalysis)).toBeNull();
     expect(planView({ ...a, assumptions: { observerSpeed: null } } as unknown as CaseAnalysis)).toBeNull();
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { defaultAssumptions } from '../../src/case/assumptions';
+import { defaultAssumptions, engineAssumptions } from '../../src/case/assumptions';
 import type { CaseAssumptions, Mark } from '../../src/case/schema';
 import { assumedDimension, dimensionMismatch, mismatchText } from '../../src/case/size-match';
 import { analyseCase } from '../../src/case/analysis';
@@ -25,11 +25,14 @@ const span = (id: string, dimension?: Mark['dimension'], t = 1): Mark => ({
 const landmark: Mark = { id: 'm', kind: 'landmark-span', t: 1, points: [{ x: 320, y: 120 }, { x: 320, y: 200 }], edgeSigmaPx: 0.5, mapping, createdAt: 1 };
 const byLength = { ...defaultAssumptions(), sizeLabel: 'code letter C, length 26-45 m', objectSizeM: { lo: 26, hi: 45 }, sizeDimension: 'length' as const };
 
+const byWingspanD = { ...defaultAssumptions(), sizeLabel: 'code letter D wingspan, 36-52 m', objectSizeM: { lo: 36, hi: 52 }, sizeDimension: 'wingspan' as const };
+
 describe('the dimension an assumed size is', () => {
-  it("the tool's defaults are a wingspan (code letter C); a size that does not say is null", () => {
-    expect(assumedDimension(undefined)).toBe('wingspan');
-    expect(assumedDimension(defaultAssumptions())).toBe('wingspan');
+  it("a size the user chose says its dimension; the tool's default follows the marks, so it says none; a size that does not say is null", () => {
+    expect(assumedDimension(byWingspanD)).toBe('wingspan');
     expect(assumedDimension(byLength)).toBe('length');
+    expect(assumedDimension(undefined)).toBeNull();
+    expect(assumedDimension(defaultAssumptions())).toBeNull();
     const typed = { ...defaultAssumptions(), sizeLabel: 'size given, 30 m' };
     delete typed.sizeDimension;
     expect(assumedDimension(typed)).toBeNull();
@@ -37,9 +40,19 @@ describe('the dimension an assumed size is', () => {
 });
 
 describe('dimensionMismatch', () => {
-  it('finds spans marked as a length against the default wingspan, counting them', () => {
-    expect(dimensionMismatch([span('a', 'length')], undefined)).toEqual({ assumed: 'wingspan', marked: 'length', spans: 1, of: 1 });
-    expect(dimensionMismatch([span('a', 'length'), span('b', 'wingspan', 2), landmark], defaultAssumptions())).toEqual({ assumed: 'wingspan', marked: 'length', spans: 1, of: 2 });
+  it('first use warns of nothing: the default size follows a span marked by length (issue 12, point 11)', () => {
+    expect(dimensionMismatch([span('a', 'length')], undefined)).toBeNull();
+    expect(dimensionMismatch([span('a', 'length')], defaultAssumptions())).toBeNull();
+    // and the figures take the code letter's length band (REFERENCES.md, from memory), not its wingspan
+    const a = engineAssumptions(defaultAssumptions(), [span('a', 'length')]);
+    expect(a.objectSize).toEqual({ lo: 26, hi: 45 });
+    expect(a.sizeLabel).toMatch(/length/);
+    expect(engineAssumptions(undefined, [span('a', 'wingspan')]).objectSize).toEqual({ lo: 24, hi: 36 });
+  });
+
+  it('finds spans marked as a length against a wingspan the user chose, counting them', () => {
+    expect(dimensionMismatch([span('a', 'length')], byWingspanD)).toEqual({ assumed: 'wingspan', marked: 'length', spans: 1, of: 1 });
+    expect(dimensionMismatch([span('a', 'length'), span('b', 'wingspan', 2), landmark], byWingspanD)).toEqual({ assumed: 'wingspan', marked: 'length', spans: 1, of: 2 });
     expect(dimensionMismatch([span('a', 'wingspan'), span('b', 'wingspan', 2)], byLength)).toEqual({ assumed: 'length', marked: 'wingspan', spans: 2, of: 2 });
   });
 
@@ -64,7 +77,7 @@ describe('dimensionMismatch', () => {
   it('reaches the analysis and the shared summary, beside the assumptions', () => {
     const video = { pageUrl: 'http://127.0.0.1/invented', pageTitle: 'invented', src: '', width: 640, height: 360, duration: 3 };
     let c = upsertMark(newCase('c', video, '0.1.0', 1), span('a', 'length'), 2);
-    c = withAssumptions(c, defaultAssumptions(), 3);
+    c = withAssumptions(c, byWingspanD, 3);
     const r = analyseCase(c, { draws: 500 });
     expect(r.dimensionMismatch).toContain('marked as its length, but the size assumed is a wingspan');
     const text = summaryText(c, r, { format: 'text', system: 'metric', toolVersion: '0.1.0' }).replace(/\s+/g, ' ');

@@ -37,7 +37,8 @@ function caseOf(truth: Truth, assumptions: CaseAssumptions | undefined, withLand
   const video = { pageUrl: 'http://127.0.0.1/invented-clip', pageTitle: 'Invented test clip', src: '', width: truth.video.width, height: truth.video.height, duration: truth.video.duration };
   let c = newCase('case-invented', video, '0.1.0', CREATED);
   frames.forEach((f, i) => {
-    c = upsertMark(c, { ...mark(`o${i}`, 'object-span', f.t, f.object), dimension: 'wingspan' }, CHANGED);
+    // the older clips' object is a flat target kept square to the line of sight: a span of dimension "other"
+    c = upsertMark(c, { ...mark(`o${i}`, 'object-span', f.t, f.object), dimension: 'other' }, CHANGED);
     const lm = f.landmarks.find((l) => l.id === withLandmark);
     if (lm) c = upsertMark(c, { ...mark(`l${i}`, 'landmark-span', f.t, lm), landmarkId: lm.id }, CHANGED);
   });
@@ -118,7 +119,7 @@ function estimatesShown(r: CaseAnalysis, system: UnitSystem): { what: string; e:
     const x = ts.result;
     push(`angular size ${ts.t}`, x.angularSize, (e) => formatEstimate(e, 'angle', system));
     push(`range ${ts.t}`, x.range, (e) => formatEstimate(e, 'distance', system));
-    push(`landmark range ${ts.t}`, x.landmarkRange, (e) => formatEstimate(e, 'distance', system));
+    push(`landmark range ${ts.t}`, x.landmarkHorizontalRange ?? x.landmarkRange, (e) => formatEstimate(e, 'distance', system));
     // the opposite direction is shown as a magnitude with the word "opposite"
     push(`implied speed ${ts.t}`, x.impliedSpeed, (e) => formatEstimate(e.p95 < 0 ? magnitude(e) : e, 'speed', system));
     push(`fixed point ${ts.t}`, x.fixedPointFraction, (e) => {
@@ -130,7 +131,13 @@ function estimatesShown(r: CaseAnalysis, system: UnitSystem): { what: string; e:
     push('closest approach', r.series.closestApproach, (e) => formatEstimate(e, 'distance', system));
     push('relative speed', r.series.relativeSpeed, (e) => formatEstimate(e, 'speed', system));
     push('time of closest approach', r.series.tClosest, (e) => formatEstimate(e, 'time', system));
-    for (const [k, e] of Object.entries(r.series.objectSpeed ?? {})) push(`object speed ${k}`, e, (v) => formatEstimate(v, 'speed', system));
+    push('closest approach, horizontal', r.series.closestHorizontal, (e) => formatEstimate(e, 'distance', system));
+    for (const x of r.readings) if (x.pass) push(`object speed ${x.pass.direction}`, x.pass.speed, (v) => formatEstimate(v, 'speed', system));
+  }
+  for (const ts of r.timestamps) {
+    if (!ts.fitted) continue;
+    push(`fitted range ${ts.t}`, ts.fitted.range, (e) => formatEstimate(e, 'distance', system));
+    push(`fitted horizontal range ${ts.t}`, ts.fitted.horizontalRange, (e) => formatEstimate(e, 'distance', system));
   }
   return out;
 }
@@ -157,12 +164,17 @@ describe('summary content', () => {
 
     it(`${s.name}: in the results, no figure with a unit stands without an interval`, () => {
       const text = render(s, 'text');
-      const results = text.slice(text.indexOf('\nResults\n'), text.indexOf('\nVerdict on the picture\n'));
+      // the warnings are advice in words (which frames would settle a fit), not figures
+      const all = text.slice(text.indexOf('\nResults\n'), text.indexOf('\nVerdict on the picture\n'));
+      const warnings = all.indexOf('\nWarnings\n');
+      const results = warnings < 0 ? all : all.slice(0, warnings) + all.slice(all.indexOf('\nPer timestamp\n'));
       expect(results.length).toBeGreaterThan(0);
       const measured = /\d(?:\.\d+)?\s?(?:km\/h|mph|kt|km|NM|mi|ft|m|s|°)(?=[\s,;)]|$)/;
       for (const line of results.split('\n')) {
         // spans are as marked, and a value the case states exactly (the clip's length) says so
-        if (measured.test(line) && !/^\s*(?:Object span|\d+:\d{2}\.\d{3}|- At \d)/.test(line) && !/\bexactly\b/.test(line)) expect(line, line).toMatch(/5-95 %/);
+        // a timestamp is the frame's own time, as marked: it needs no interval
+        const figures = line.replace(/\d+:\d{2}\.\d{3} \(\d+\.\d{3} s\)/g, '');
+        if (measured.test(figures) && !/^\s*(?:Object span|- At \d)/.test(line) && !/\bexactly\b/.test(line)) expect(line, line).toMatch(/5-95 %/);
       }
     });
 
@@ -238,8 +250,8 @@ describe('summary content', () => {
     const mixed = flat(render(SCENARIOS[0]!));
     expect(mixed).toContain('Camera label known camera (given)');
     expect(mixed).toContain('Horizontal field of view 39.0° to 41.0° (given)');
-    expect(mixed).toContain('Size label code letter C wingspan, 24-36 m (the tool’s default value)');
-    expect(mixed).toContain('Object size 24.0 m to 36.0 m (the tool’s default value)');
+    expect(mixed).toContain('Size label code letter C wingspan, 24-36 m (default)');
+    expect(mixed).toContain('Object size 24.0 m to 36.0 m (default)');
     expect(mixed).toContain('Observer speed 86.4 km/h to 93.6 km/h (given)');
   });
 
@@ -261,11 +273,11 @@ describe('summary content', () => {
     const text = render(s);
     expect(r.verdicts.length).toBeGreaterThanOrEqual(2);
     expect(text).toContain(`one verdict for each reading (${r.verdicts.length})`);
-    expect(text).toContain('the range-over-time fit, if the object moves against the observer');
+    expect(text).toContain('the pass over the marked frames, if the object moves against the observer');
     expect(text).toContain('Observation window');
     expect(text).toContain('No landmark was marked on these frames');
     expect(text).not.toContain('Landmark range');
-    expect(text).toContain('Object speed, if opposite');
+    expect(text).toContain('If the object flies the other way');
     expect(text).toContain('| Time | Object span |');
     expect(text).toMatch(/kt \(/);
   });
@@ -276,7 +288,7 @@ describe('summary content', () => {
     const text = flat(render(s));
     expect(text).toContain(r.seriesMissing!);
     expect(text).toContain(r.verdictMissing!);
-    expect(text).toContain('range-over-time fit none run (no fit)');
+    expect(text).toContain('the pass none run (no pass)');
   });
 });
 
@@ -287,7 +299,7 @@ describe('summary edge cases', () => {
   it('marked picture edges are named as the camera frame used', () => {
     const c = upsertMark(base, mark('edges', 'frame-edges', truth.frames[0]!.t, { x1: 0, y1: 180, x2: 640, y2: 180 }), CHANGED);
     const text = flat(summaryText(c, analyseCase(c, RUN), { format: 'text', system: 'metric', toolVersion: VERSION }));
-    expect(text).toContain('the marked picture edges: left 0.0 px, right 640.0 px (640.0 px wide), full height 360.0 px');
+    expect(text).toContain('the marked picture edges: left 0.0 px, right 640.0 px (640.0 px wide); the full height, 360.0 px');
     expect(text).toContain('camera frame edges');
     expect(summaryText(base, analyseCase(base, RUN), { format: 'text', system: 'metric', toolVersion: VERSION })).toContain('the whole video, 640.0 x 360.0 px');
   });

@@ -4,6 +4,7 @@ import { solveFrame, type FrameScene } from '../../src/engine/uncertainty';
 import { Rng } from '../../src/engine/rng';
 import { InputError } from '../../src/engine/errors';
 import { DEG } from '../../src/engine/constants';
+import { pinhole } from './pinhole';
 
 const W = 1920;
 const H = 1080;
@@ -50,9 +51,10 @@ describe('solveFrame', () => {
   });
 
   it('a landmark the object seems pinned over gives the implied speed w = u (1 - R/d) (DESIGN.md; invented case)', () => {
-    // Invented: object 120 px (30 m), landmark a 10 m mast spanning 100 px on the same sight line.
+    // Invented: object 120 px (30 m), landmark a 10 m wide front spanning 100 px on the same sight
+    // line; nothing gives the elevation, so both ranges are slant ranges.
     const s = scene(900, 1020, {
-      landmark: { span: { x1: 910, y1: 700, x2: 1010, y2: 700, edgeSigmaPx: 0 }, size: exact(10), aspect: exact(90 * DEG) },
+      landmark: { span: { x1: 910, y1: 700, x2: 1010, y2: 700, edgeSigmaPx: 0 }, size: exact(10), dimension: 'width' },
       observerSpeed: exact(25),
     });
     const r = solveFrame(s, { draws: 200 });
@@ -63,6 +65,38 @@ describe('solveFrame', () => {
     expect(r.impliedSpeed!.median).toBeLessThan(0); // landmark in front: opposite direction
     expect(r.fixedPointFraction!.median).toBeCloseTo(d / R, 9);
     expect(r.regimeShares).toEqual({ between: 1, beyond: 0, behind: 0, none: 0 });
+  });
+
+  it('a mast’s foot gives the object’s elevation: the point is weighed on the ground, d / (R cos e), not d / R (issue 12, point 2; invented scene)', () => {
+    // Invented: the camera 1.5 m up tracks an object 640 m away at 15 deg elevation; a 20 m mast
+    // stands on the ground on the same sight line, 170 m away. Pinhole built the long way (pinhole.ts).
+    const f = W / 2 / Math.tan((40 * DEG) / 2);
+    const elev = 15 * DEG;
+    const R = 640;
+    const cam = pinhole(0.5, 8 * DEG, 0, f, W, H); // aimed below the object, so the foot is in view
+    const obj = { x: R * Math.cos(elev) * Math.cos(0.5), y: R * Math.cos(elev) * Math.sin(0.5), z: R * Math.sin(elev) };
+    const ends = [-15, 15].map((s) => cam.project({ x: obj.x - s * Math.sin(0.5), y: obj.y + s * Math.cos(0.5), z: obj.z }));
+    const d = 170;
+    const foot = cam.project({ x: d * Math.cos(0.5), y: d * Math.sin(0.5), z: -1.5 });
+    const top = cam.project({ x: d * Math.cos(0.5), y: d * Math.sin(0.5), z: 18.5 });
+    const r = solveFrame(
+      {
+        frame: { widthPx: W, heightPx: H },
+        hfov: exact(40 * DEG),
+        object: { span: { x1: ends[0]!.x, y1: ends[0]!.y, x2: ends[1]!.x, y2: ends[1]!.y, edgeSigmaPx: 0 }, size: exact(30), aspect: exact(90 * DEG) },
+        landmark: { span: { x1: foot.x, y1: foot.y, x2: top.x, y2: top.y, edgeSigmaPx: 0 }, size: exact(20), dimension: 'height' },
+        observerSpeed: exact(25),
+        cameraHeight: exact(1.5),
+      },
+      { draws: 200 },
+    );
+    expect(r.elevationSource).toBe('landmark');
+    expect(r.elevation!.median).toBeCloseTo(elev, 3);
+    expect(r.horizontalRange!.median / (R * Math.cos(elev))).toBeCloseTo(1, 3);
+    expect(r.landmarkHorizontalRange!.median / d).toBeCloseTo(1, 3);
+    expect(r.fixedPointFraction!.median / (d / (R * Math.cos(elev)))).toBeCloseTo(1, 3);
+    // the slant ratio would be off by 1 / cos(15 deg), 3.5 %
+    expect(Math.abs(r.fixedPointFraction!.median / (d / R) - 1)).toBeGreaterThan(0.03);
   });
 
   it('an assumed object speed places the fixed point by D u / (u - w) (parallel tracks)', () => {

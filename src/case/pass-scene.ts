@@ -1,0 +1,186 @@
+import { DEG } from '../engine/constants';
+import type { HorizonMark, LandmarkMark, PassScene } from '../engine/pass-inputs';
+import { Axis, type AxisCode } from '../engine/pass-model';
+import { CAMERA_PROFILES } from '../engine/profiles';
+import type { Band, HorizonLine, LandmarkBody } from '../engine/uncertainty';
+import type { EngineAssumptions } from './assumptions';
+import { marksAt, spanInFrame, type FrameRect } from './frames';
+import type { Mark, Point } from './schema';
+
+/*
+ * From a case's marks and assumptions to what the engine takes: the field of view across the picture
+ * actually recorded, each span's axis, landmarks with their own size and dimension, horizons, and a
+ * fixed camera's aim. Pure.
+ */
+
+/** The elevation assumed when nothing in the frame gives it and the user did not: wide on purpose (common practice: objects filmed from a road sit 0-60 deg up). */
+/** A fixed camera's pitch when none is given and no horizon is marked. */
+export const LEVEL: Band = { lo: 0, hi: 0 };
+
+export const UNKNOWN_ELEVATION: Band = { lo: 0, hi: 60 * DEG };
+
+/** The field of view used, and why it differs from the one assumed. */
+export interface FieldOfView {
+  hfov: Band;
+  /** The picture is taller than wide and the field was a landscape camera class's: turned to the portrait width. */
+  portrait: boolean;
+  note: string | null;
+}
+
+/**
+ * A camera class's field of view is across the long side of its landscape picture. A portrait
+ * picture from it (taller than wide) spans the short side across its width: tan(HFOV/2) scales by
+ * width / height, which is the landscape picture's vertical field (the portrait classes in
+ * profiles.ts are that same field, derived on their own). A field the user typed is taken as given,
+ * across the picture's width.
+ */
+export function fieldOfView(a: EngineAssumptions, frame: FrameRect): FieldOfView {
+  const W = frame.right - frame.left;
+  const H = frame.bottom - frame.top;
+  const profile = CAMERA_PROFILES.find((p) => p.label === a.cameraLabel);
+  if (!(H > W)) return { hfov: a.hfov, portrait: false, note: null };
+  if (!profile || profile.id.includes('portrait')) {
+    return { hfov: a.hfov, portrait: false, note: `The picture is portrait (${W.toFixed(0)} x ${H.toFixed(0)} px): the field of view is taken across its width, as given.` };
+  }
+  const k = W / H;
+  const turn = (x: number) => 2 * Math.atan(Math.tan(x / 2) * k);
+  return {
+    hfov: { lo: turn(a.hfov.lo), hi: turn(a.hfov.hi) },
+    portrait: true,
+    note: `The picture is portrait (${W.toFixed(0)} x ${H.toFixed(0)} px): the camera class's field of view is turned to its width.`,
+  };
+}
+
+export function axisOf(dimension: Mark['dimension']): AxisCode {
+  switch (dimension) {
+    case 'length':
+      return Axis.LENGTH;
+    case 'height':
+      return Axis.HEIGHT;
+    case 'other':
+      return Axis.SQUARE;
+    default:
+      return Axis.WINGSPAN;
+  }
+}
+
+/** A landmark mark as the engine takes it: its own size (by id, else the shared one) and dimension. */
+export function landmarkBody(m: Mark, a: EngineAssumptions, frame: FrameRect): LandmarkBody {
+  const dimension = m.landmarkDimension ?? 'height';
+  return {
+    span: spanInFrame(m, frame),
+    size: (m.landmarkId !== undefined ? a.landmarkSizes.get(m.landmarkId) : undefined) ?? a.landmarkSize,
+    dimension,
+    ...(dimension === 'width' && a.landmarkAspect ? { aspect: a.landmarkAspect } : {}),
+  };
+}
+
+/** The horizon marked on the frame at t, in camera-frame pixels. */
+export function horizonAt(marks: readonly Mark[], t: number, frame: FrameRect): HorizonLine | null {
+  const h = marksAt(marks, t).find((m) => m.kind === 'horizon');
+  if (!h) return null;
+  const [p, q] = h.points as [Point, Point];
+  return { x1: p.x - frame.left, y1: p.y - frame.top, x2: q.x - frame.left, y2: q.y - frame.top, sigmaPx: h.edgeSigmaPx };
+}
+
+/** The horizon a fixed camera keeps: the latest marked. */
+export function anyHorizon(marks: readonly Mark[], frame: FrameRect): HorizonLine | null {
+  const h = [...marks].reverse().find((m) => m.kind === 'horizon');
+  return h ? horizonAt([h], h.t, frame) : null;
+}
+
+/** Landmark id for grouping marks of the same landmark ('' for the one unnamed landmark). */
+export function landmarkKey(m: Mark): string {
+  return m.landmarkId ?? '';
+}
+
+export interface PassInputs {
+  scene: PassScene;
+  /** the object marks that entered, one per timestamp */
+  objectMarks: Mark[];
+  /** the landmark marks that entered, aligned with scene.landmarks */
+  landmarkMarks: Mark[];
+}
+
+/**
+ * The pass scene for the fit. `objects` are the object spans, one per timestamp, of one axis. The
+ * observer's speed may be null: the fit then gives the relative motion only (speed {0, 0}).
+ */
+export function passInputs(
+  objects: readonly Mark[],
+  all: readonly Mark[],
+  a: EngineAssumptions,
+  hfov: Band,
+  frame: FrameRect,
+  axis: AxisCode,
+): PassInputs {
+  const horizons: HorizonMark[] = [];
+  const landmarks: LandmarkMark[] = [];
+  const landmarkMarks: Mark[] = [];
+  for (const o of objects) {
+    const h = a.fixedCamera ? null : horizonAt(all, o.t, frame);
+    if (h) horizons.push({ t: o.t, ...h });
+    for (const m of marksAt(all, o.t)) {
+      if (m.kind !== 'landmark-span') continue;
+      const body = landmarkBody(m, a, frame);
+      landmarks.push({ id: landmarkKey(m), t: o.t, span: body.span, size: body.size, dimension: body.dimension ?? 'height', ...(body.aspect ? { aspect: body.aspect } : {}) });
+      landmarkMarks.push(m);
+    }
+  }
+  let fixed: PassScene['fixed'] = null;
+  if (a.fixedCamera) {
+    const h = anyHorizon(all, frame);
+    if (h) horizons.push({ t: objects[0]!.t, ...h });
+    // the schema's aim is + to the right; the ground frame's azimuths are + to the left
+    // no pitch given and no horizon: level, the default the assumptions show as one
+    fixed = { aim: { lo: -a.fixedCamera.axisHeading.hi, hi: -a.fixedCamera.axisHeading.lo }, pitch: a.fixedCamera.pitch ?? LEVEL };
+    const road = [...all].reverse().find((m) => m.kind === 'road-ahead');
+    if (road) fixed.roadAhead = { x: road.points[0]!.x - frame.left, y: road.points[0]!.y - frame.top, sigmaPx: Math.max(road.edgeSigmaPx, 1) };
+  }
+  return {
+    scene: {
+      frame: { widthPx: frame.right - frame.left, heightPx: frame.bottom - frame.top },
+      hfov,
+      object: { size: a.objectSize, axis },
+      marks: objects.map((m) => ({ t: m.t, span: spanInFrame(m, frame) })),
+      observerSpeed: a.fixedCamera?.mount === 'tripod' ? { lo: 0, hi: 0 } : (a.observerSpeed ?? { lo: 0, hi: 0 }),
+      trackAngle: a.trackAngle,
+      cameraHeight: a.cameraHeight,
+      horizons,
+      landmarks,
+      fixed,
+      elevation: a.elevation ?? UNKNOWN_ELEVATION,
+    },
+    objectMarks: [...objects],
+    landmarkMarks,
+  };
+}
+
+/** The relative-motion signs the direction assumed leaves open: -1 the object drifts back past the camera, +1 it pulls ahead. */
+export function signsFor(direction: EngineAssumptions['direction']): (-1 | 1)[] {
+  switch (direction) {
+    case 'opposite':
+    case 'same-slower':
+      return [-1];
+    case 'same-faster':
+      return [1];
+    default:
+      return [-1, 1];
+  }
+}
+
+/** The reading directions the direction assumed allows. */
+export function allowedReadings(direction: EngineAssumptions['direction']): ('opposite' | 'same-slower' | 'same-faster')[] {
+  switch (direction) {
+    case 'opposite':
+      return ['opposite'];
+    case 'same-slower':
+      return ['same-slower'];
+    case 'same-faster':
+      return ['same-faster'];
+    case 'same':
+      return ['same-slower', 'same-faster'];
+    default:
+      return ['opposite', 'same-slower', 'same-faster'];
+  }
+}

@@ -1,7 +1,7 @@
 import { DEG } from '../engine/constants';
 import type { HorizonMark, LandmarkMark, PassScene } from '../engine/pass-inputs';
 import { Axis, type AxisCode } from '../engine/pass-model';
-import { CAMERA_PROFILES } from '../engine/profiles';
+import { CAMERA_PROFILES, PROFILE_DERIVATIONS } from '../engine/profiles';
 import type { Band, HorizonLine, LandmarkBody } from '../engine/uncertainty';
 import type { EngineAssumptions } from './assumptions';
 import { marksAt, spanInFrame, type FrameRect } from './frames';
@@ -30,7 +30,7 @@ export interface FieldOfView {
 /**
  * A camera class's field of view is across the long side of its landscape picture. A portrait
  * picture from it (taller than wide) spans the short side across its width: tan(HFOV/2) scales by
- * width / height, which is the landscape picture's vertical field (the portrait classes in
+ * the class's short side over its long side (9/16), which is the landscape picture's vertical field (the portrait classes in
  * profiles.ts are that same field, derived on their own). A field the user typed is taken as given,
  * across the picture's width.
  */
@@ -42,7 +42,9 @@ export function fieldOfView(a: EngineAssumptions, frame: FrameRect): FieldOfView
   if (!profile || profile.id.includes('portrait')) {
     return { hfov: a.hfov, portrait: false, note: `The picture is portrait (${W.toFixed(0)} x ${H.toFixed(0)} px): the field of view is taken across its width, as given.` };
   }
-  const k = W / H;
+  // the class's own recorded shape (16:9 for phones), not the marked picture's rounded pixels
+  const recorded = PROFILE_DERIVATIONS.find((d) => d.id === profile.id)?.recordedAspect ?? H / W;
+  const k = 1 / recorded;
   const turn = (x: number) => 2 * Math.atan(Math.tan(x / 2) * k);
   return {
     hfov: { lo: turn(a.hfov.lo), hi: turn(a.hfov.hi) },

@@ -4,16 +4,37 @@ import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { CHROMIUM_ARGS, chromiumPath } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
+import { readContainer } from './webm';
+import { profileById } from '../../src/engine/profiles';
+import {
+  cross,
+  fixedPointFraction,
+  measureLinesInPage,
+  norm,
+  objectAxes,
+  projectV2,
+  rayAngleV2,
+  rayThrough,
+  sightCrossing,
+  sub,
+  type FrameV2,
+  type LinePageArgs,
+  type TruthV2,
+  type Xyz,
+} from './fixture-matrix';
 
 /*
  * The committed fixture clips (invented scenes, test/fixtures/) against their truth files. Node-side
  * checks read the WebM container and recompute the geometry independently of the generator; the
  * browser checks decode each clip in Chromium, seek to every marked frame and find the object's ends
- * in the pixels. No ffmpeg here: CI has none.
+ * in the pixels. No ffmpeg here: CI has none. The first four clips (truth version 1) show a flat
+ * silhouette kept square to the sight line; the truth-matrix clips (truthVersion 2) a 3-D aircraft
+ * whose length and wingspan turn with the pass, measured along their own tilted lines.
  */
 
 const CLIPS = resolve('test/fixtures/clips');
-const MAX_TOTAL_BYTES = 3 * 1024 * 1024;
+/** Same budget as the generator: 6 MB since the nine longer truth-matrix clips (3.4 MB in all now). */
+const MAX_TOTAL_BYTES = 6 * 1024 * 1024;
 
 interface Ends {
   x1: number;
@@ -76,75 +97,22 @@ const names = readdirSync(CLIPS)
   .filter((f) => f.endsWith('.truth.json'))
   .map((f) => f.slice(0, -'.truth.json'.length))
   .sort();
-const truths = new Map<string, Truth>(names.map((n) => [n, JSON.parse(readFileSync(join(CLIPS, `${n}.truth.json`), 'utf8')) as Truth]));
+const raw = new Map<string, { truthVersion?: number }>(names.map((n) => [n, JSON.parse(readFileSync(join(CLIPS, `${n}.truth.json`), 'utf8'))]));
+const v1Names = names.filter((n) => raw.get(n)?.truthVersion === undefined);
+const v2Names = names.filter((n) => raw.get(n)?.truthVersion === 2);
+const truths = new Map<string, Truth>(v1Names.map((n) => [n, raw.get(n) as Truth]));
+const truths2 = new Map<string, TruthV2>(v2Names.map((n) => [n, raw.get(n) as TruthV2]));
+
+function truth2Of(name: string): TruthV2 {
+  const t = truths2.get(name);
+  if (!t) throw new Error(`no truth for ${name}`);
+  return t;
+}
 
 function truthOf(name: string): Truth {
   const t = truths.get(name);
   if (!t) throw new Error(`no truth for ${name}`);
   return t;
-}
-
-// ---- WebM container (EBML), read in Node --------------------------------------------------------
-
-interface Container {
-  width: number;
-  height: number;
-  durationS: number;
-  blocks: number;
-}
-
-const MASTERS = new Set([0x18538067, 0x1549a966, 0x1654ae6b, 0xae, 0xe0, 0x1f43b675, 0xa0]);
-
-function vint(b: Uint8Array, p: number, keepMarker: boolean): { value: number; length: number; unknown: boolean } {
-  const first = b[p] ?? 0;
-  let length = 1;
-  let mask = 0x80;
-  while (length <= 8 && (first & mask) === 0) {
-    mask >>= 1;
-    length++;
-  }
-  if (length > 8) throw new Error(`bad EBML length at ${p}`);
-  let value = keepMarker ? first : first & (mask - 1);
-  let allOnes = value === mask - 1;
-  for (let i = 1; i < length; i++) {
-    const byte = b[p + i] ?? 0;
-    value = value * 256 + byte;
-    if (byte !== 0xff) allOnes = false;
-  }
-  return { value, length, unknown: !keepMarker && allOnes };
-}
-
-function readUint(b: Uint8Array, p: number, n: number): number {
-  let v = 0;
-  for (let i = 0; i < n; i++) v = v * 256 + (b[p + i] ?? 0);
-  return v;
-}
-
-function readContainer(file: string): Container {
-  const b = new Uint8Array(readFileSync(file));
-  const view = new DataView(b.buffer, b.byteOffset, b.byteLength);
-  const out: Container = { width: 0, height: 0, durationS: 0, blocks: 0 };
-  let timecodeScale = 1_000_000;
-  let durationTicks = 0;
-  const walk = (start: number, end: number): void => {
-    let p = start;
-    while (p < end) {
-      const id = vint(b, p, true);
-      const size = vint(b, p + id.length, false);
-      const data = p + id.length + size.length;
-      const stop = size.unknown ? end : Math.min(end, data + size.value);
-      if (MASTERS.has(id.value)) walk(data, stop);
-      else if (id.value === 0xa3 || id.value === 0xa1) out.blocks++;
-      else if (id.value === 0x2ad7b1) timecodeScale = readUint(b, data, size.value);
-      else if (id.value === 0x4489) durationTicks = size.value === 4 ? view.getFloat32(data) : view.getFloat64(data);
-      else if (id.value === 0xb0) out.width = readUint(b, data, size.value);
-      else if (id.value === 0xba) out.height = readUint(b, data, size.value);
-      p = stop;
-    }
-  };
-  walk(0, b.length);
-  out.durationS = (durationTicks * timecodeScale) / 1e9;
-  return out;
 }
 
 // ---- independent geometry from the truth file alone ---------------------------------------------
@@ -194,8 +162,10 @@ function sightLineCrossing(a: FrameTruth, b: FrameTruth): { x: number; y: number
 }
 
 describe('fixture clips: files and truth (no browser)', () => {
-  it('there are clips, each with its truth, and all together stay under 3 MB', () => {
-    expect(names.length).toBeGreaterThanOrEqual(4);
+  it('there are clips, each with its truth, and all together stay under 6 MB', () => {
+    expect(v1Names.length).toBeGreaterThanOrEqual(4);
+    expect(v2Names.length).toBeGreaterThanOrEqual(9);
+    expect(v1Names.length + v2Names.length).toBe(names.length);
     let total = 0;
     for (const n of names) {
       expect(existsSync(join(CLIPS, `${n}.webm`)), n).toBe(true);
@@ -205,16 +175,17 @@ describe('fixture clips: files and truth (no browser)', () => {
   });
 
   it('covers the presentations: plain, pillarboxed, letterboxed and a fixed camera', () => {
-    const all = names.map(truthOf);
-    const w = (t: Truth) => t.cameraFrame.right - t.cameraFrame.left;
-    const h = (t: Truth) => t.cameraFrame.bottom - t.cameraFrame.top;
+    type Framed = Pick<Truth, 'cameraFrame' | 'video'> & { camera: { mode: string } };
+    const all: Framed[] = [...v1Names.map(truthOf), ...v2Names.map(truth2Of)];
+    const w = (t: Framed) => t.cameraFrame.right - t.cameraFrame.left;
+    const h = (t: Framed) => t.cameraFrame.bottom - t.cameraFrame.top;
     expect(all.some((t) => w(t) === t.video.width && h(t) === t.video.height && t.camera.mode === 'tracked')).toBe(true);
     expect(all.some((t) => w(t) < t.video.width && h(t) === t.video.height)).toBe(true);
     expect(all.some((t) => h(t) < t.video.height && w(t) === t.video.width)).toBe(true);
     expect(all.some((t) => t.camera.mode === 'fixed')).toBe(true);
   });
 
-  for (const name of names) {
+  for (const name of v1Names) {
     describe(name, () => {
       const tr = truthOf(name);
 
@@ -334,6 +305,242 @@ describe('fixture clips: files and truth (no browser)', () => {
           }
         }
       });
+    });
+  }
+});
+
+// ---- truth-matrix clips (truthVersion 2), from the truth file alone ------------------------------
+
+const DEG = Math.PI / 180;
+
+/** Every end a frame marks: the spans, the landmarks' end pairs. */
+function markedEnds(fr: FrameV2): [number, number][] {
+  const out: [number, number][] = [];
+  for (const sp of [fr.spans.length, fr.spans.wingspan, ...fr.landmarks]) {
+    if (sp) out.push([sp.x1, sp.y1], [sp.x2, sp.y2]);
+  }
+  return out;
+}
+
+/** Where a vertical line through a ground point, extended, crosses the object centre's row. */
+function verticalAtRow(tr: TruthV2, fr: FrameV2, gx: number, gy: number): number {
+  const a = projectV2(tr, fr, { x: gx, y: gy, z: 0 });
+  const b = projectV2(tr, fr, { x: gx, y: gy, z: 10 });
+  return a.x + ((fr.objectCentre.y - a.y) * (b.x - a.x)) / (b.y - a.y);
+}
+
+describe('truth-matrix clips: files and truth (no browser)', () => {
+  it('the matrix covers the directions, cameras and presentations it was made for', () => {
+    const all = v2Names.map(truth2Of);
+    const dirs = new Set(all.map((t) => t.direction));
+    expect([...dirs].sort()).toEqual(['opposite', 'same-faster', 'same-slower']);
+    expect(all.some((t) => t.camera.mode === 'fixed' && t.object.trackAngleDeg !== 0)).toBe(true);
+    expect(all.some((t) => t.camera.shake && t.object.trackAngleDeg !== 0 && t.fixedPoint.wanders)).toBe(true);
+    expect(all.some((t) => t.bars === 'blur' && t.cameraFrame.right - t.cameraFrame.left < t.cameraFrame.bottom - t.cameraFrame.top)).toBe(true);
+    expect(all.some((t) => t.bars === 'black' && (t.cameraFrame.right - t.cameraFrame.left) / (t.cameraFrame.bottom - t.cameraFrame.top) > 2)).toBe(true);
+    expect(all.some((t) => t.object.pointedEnds)).toBe(true);
+    expect(all.some((t) => t.decoyFrame !== undefined && t.landmarks.some((l) => l.decoy))).toBe(true);
+    expect(all.some((t) => t.pass.elevationAtClosestDeg > 29)).toBe(true);
+  });
+
+  for (const name of v2Names) {
+    describe(name, () => {
+      const tr = truth2Of(name);
+      const parallel = tr.object.trackAngleDeg === 0;
+
+      it('is marked as an invented scene and says what it is for', () => {
+        expect(tr.invented).toBe(true);
+        expect(tr.note).toBe('invented scene, not real');
+        expect(tr.summary.length).toBeGreaterThan(40);
+      });
+
+      it('container size, duration and frame count match the truth file', () => {
+        const c = readContainer(join(CLIPS, `${name}.webm`));
+        expect(c.width).toBe(tr.video.width);
+        expect(c.height).toBe(tr.video.height);
+        expect(c.blocks).toBe(tr.video.frames);
+        expect(c.durationS).toBeCloseTo(tr.video.duration, 3);
+        expect(tr.video.frames).toBeLessThanOrEqual(255);
+      });
+
+      it('7 to 9 marked frames, each end and landmark at least 3 px inside the camera frame, the horizon inside where given', () => {
+        expect(tr.frames.length).toBeGreaterThanOrEqual(7);
+        expect(tr.frames.length).toBeLessThanOrEqual(9);
+        const f = tr.cameraFrame;
+        for (const fr of tr.frames) {
+          expect(fr.t).toBeCloseTo((fr.index + 0.5) / tr.video.fps, 9);
+          for (const [x, y] of markedEnds(fr)) {
+            expect(x).toBeGreaterThanOrEqual(f.left + 3);
+            expect(x).toBeLessThanOrEqual(f.right - 3);
+            expect(y).toBeGreaterThanOrEqual(f.top + 3);
+            expect(y).toBeLessThanOrEqual(f.bottom - 3);
+          }
+          if (fr.horizon) for (const y of [fr.horizon.y1, fr.horizon.y2]) expect(y).toBeGreaterThanOrEqual(f.top);
+          const primary = fr.spans[tr.object.primaryDimension];
+          if (!primary) throw new Error(`frame ${fr.index}: no primary span`);
+          expect(fr.object).toEqual({ x1: primary.x1, y1: primary.y1, x2: primary.x2, y2: primary.y2 });
+        }
+      });
+
+      it('the stated pose projects the object centre, the nose and tail tips and the wing tips where the truth says', () => {
+        const { e, n } = objectAxes(tr);
+        for (const fr of tr.frames) {
+          const P = fr.objectPosition;
+          const at = (k: number, v: Xyz): Xyz => ({ x: P.x + k * v.x, y: P.y + k * v.y, z: P.z + k * v.z });
+          const c = projectV2(tr, fr, P);
+          expect(Math.abs(c.x - fr.objectCentre.x)).toBeLessThan(1e-6);
+          expect(Math.abs(c.y - fr.objectCentre.y)).toBeLessThan(1e-6);
+          const checks: [typeof fr.spans.length, Xyz, Xyz, number][] = [
+            [fr.spans.length, at(tr.object.lengthM / 2, e), at(-tr.object.lengthM / 2, e), fr.spans.length?.nose ?? 1],
+            [fr.spans.wingspan, at(tr.object.wingspanM / 2, n), at(-tr.object.wingspanM / 2, n), 0],
+          ];
+          for (const [sp, A, B, first] of checks) {
+            if (!sp) continue;
+            const a = projectV2(tr, fr, A);
+            const b = projectV2(tr, fr, B);
+            // end 1 is the left one; for the length, `nose` says which end the nose is
+            const [l, r] = a.x <= b.x ? [a, b] : [b, a];
+            expect(Math.abs(l.x - sp.x1) + Math.abs(l.y - sp.y1) + Math.abs(r.x - sp.x2) + Math.abs(r.y - sp.y2)).toBeLessThan(1e-6);
+            if (first) expect(first === 1 ? sp.x1 : sp.x2).toBeCloseTo(a.x, 6);
+          }
+          const s = sub(P, fr.observer);
+          expect(fr.objectRange).toBeCloseTo(norm(s), 6);
+          expect(fr.objectHorizontalRange).toBeCloseTo(Math.hypot(s.x, s.y), 6);
+          expect(fr.objectElevationRad).toBeCloseTo(Math.atan2(s.z, Math.hypot(s.x, s.y)), 9);
+          expect(fr.objectAzimuthRad).toBeCloseTo(Math.atan2(s.y, s.x), 9);
+          const u = { x: s.x / norm(s), y: s.y / norm(s), z: s.z / norm(s) };
+          expect(fr.lengthAspectRad).toBeCloseTo(Math.acos(Math.abs(e.x * u.x + e.y * u.y)), 9);
+          expect(fr.wingAspectRad).toBeCloseTo(Math.acos(Math.abs(n.x * u.x + n.y * u.y)), 9);
+        }
+      });
+
+      it('spans follow L |e x s| / R (length within 0.3 %), and on a parallel pass L rho / R^2 (within 0.5 %)', () => {
+        const { e, n } = objectAxes(tr);
+        const rho = tr.pass.closestApproachSlantM;
+        for (const fr of tr.frames) {
+          const s = sub(fr.objectPosition, fr.observer);
+          const R = norm(s);
+          const unit = { x: s.x / R, y: s.y / R, z: s.z / R };
+          for (const [sp, size, axis, tol] of [
+            [fr.spans.length, tr.object.lengthM, e, 3e-3],
+            [fr.spans.wingspan, tr.object.wingspanM, n, 3e-3 + (tr.object.wingspanM / (2 * R)) ** 2],
+          ] as const) {
+            if (!sp) continue;
+            const theta = rayAngleV2(tr, sp.x1, sp.y1, sp.x2, sp.y2);
+            expect(theta).toBeCloseTo(sp.angularSizeRad, 9);
+            expect(Math.abs(theta / ((size * norm(cross(axis, unit))) / R) - 1)).toBeLessThan(tol);
+          }
+          if (parallel && fr.spans.length) {
+            expect(Math.abs(fr.spans.length.angularSizeRad / ((tr.object.lengthM * rho) / (R * R)) - 1)).toBeLessThan(5e-3);
+          }
+        }
+        // rho from two frames' relative positions: distance from the camera to the relative track
+        const [a, b] = [tr.frames[0], tr.frames[tr.frames.length - 1]];
+        if (!a || !b) throw new Error('no frames');
+        const ra = sub(a.objectPosition, a.observer);
+        const d = sub(sub(b.objectPosition, b.observer), ra);
+        expect(norm(cross(ra, d)) / norm(d)).toBeCloseTo(rho, 6);
+        expect(tr.pass.relativeSpeedMs).toBeCloseTo(norm(d) / (b.t - a.t), 6);
+      });
+
+      it('the fixed point from s = -(n . u) / (n . (w - u)), and D u / (u - w) on a parallel pass', () => {
+        const u = tr.camera.speed;
+        for (const fr of tr.frames) {
+          const s = fixedPointFraction(fr);
+          expect(fr.fixedPoint.fraction).toBeCloseTo(s, 9);
+          const h = Math.hypot(fr.objectPosition.x - fr.observer.x, fr.objectPosition.y - fr.observer.y);
+          expect(fr.fixedPoint.horizontalDistanceM).toBeCloseTo(s * h, 6);
+          expect(fr.fixedPoint.groundX).toBeCloseTo(fr.observer.x + s * (fr.objectPosition.x - fr.observer.x), 6);
+          expect(fr.fixedPoint.groundY).toBeCloseTo(fr.observer.y + s * (fr.objectPosition.y - fr.observer.y), 6);
+          expect(fr.fixedPoint.distanceFromRoadM).toBeCloseTo(fr.fixedPoint.groundY, 9);
+          if (parallel) expect(s).toBeCloseTo(u / (u - fr.objectVelocity.x), 9);
+        }
+        const first = tr.frames[0];
+        const last = tr.frames[tr.frames.length - 1];
+        if (!first || !last) throw new Error('no frames');
+        if (parallel) {
+          const x = sightCrossing(first, last);
+          expect(x.x).toBeCloseTo(tr.fixedPoint.groundX ?? Number.NaN, 6);
+          expect(x.y).toBeCloseTo(tr.fixedPoint.groundY ?? Number.NaN, 6);
+          expect(tr.fixedPoint.distanceFromRoadM).toBeCloseTo((tr.object.trackDistanceM * u) / (u - tr.object.speed), 6);
+        } else {
+          expect(tr.fixedPoint.wanders).toBe(true);
+          expect(Math.abs(first.fixedPoint.fraction - last.fixedPoint.fraction)).toBeGreaterThan(0.01);
+        }
+        const wx = first.objectVelocity.x;
+        expect(tr.direction).toBe(wx < 0 ? 'opposite' : wx < u ? 'same-slower' : 'same-faster');
+        if (tr.direction === 'same-faster') expect(first.fixedPoint.horizontalDistanceM).toBeLessThan(0);
+      });
+
+      it('landmarks: ranges and sizes from their ground positions; those at the fixed point or the decoy on the sight line, below the object', () => {
+        for (const fr of tr.frames) {
+          for (const m of fr.landmarks) {
+            const lm = tr.landmarks.find((l) => l.id === m.id);
+            if (!lm) throw new Error(`unknown landmark ${m.id}`);
+            const midZ = lm.dimension === 'height' ? lm.sizeM / 2 : (lm.wallHeightM ?? 0) / 2;
+            const horiz = Math.hypot(lm.groundX - fr.observer.x, lm.groundY - fr.observer.y);
+            expect(m.horizontalRange).toBeCloseTo(horiz, 6);
+            expect(m.baseHorizontalRange).toBeCloseTo(horiz, 6);
+            expect(m.range).toBeCloseTo(Math.hypot(horiz, midZ - fr.observer.z), 6);
+            expect(rayAngleV2(tr, m.x1, m.y1, m.x2, m.y2)).toBeCloseTo(m.angularSizeRad, 9);
+            const off = verticalAtRow(tr, fr, lm.groundX, lm.groundY) - fr.objectCentre.x;
+            expect(m.onSightLine).toBe(Math.abs(off) <= 1);
+            const pinned = lm.atFixedPoint || lm.atFixedPointOfFrame === fr.index || (lm.decoy && tr.decoyFrame === fr.index);
+            if (pinned) {
+              expect(Math.abs(off)).toBeLessThan(0.5);
+              expect(Math.min(m.y1, m.y2)).toBeGreaterThan(fr.objectCentre.y);
+            } else if (lm.decoy) {
+              expect(Math.abs(off)).toBeGreaterThan(3);
+            }
+          }
+        }
+        for (const lm of tr.landmarks) {
+          const pinnedAt = lm.atFixedPoint ? tr.frames.map((f) => f.index) : lm.atFixedPointOfFrame !== undefined ? [lm.atFixedPointOfFrame] : [];
+          for (const i of pinnedAt) {
+            const fr = tr.frames.find((f) => f.index === i);
+            if (!fr) throw new Error(`no frame ${i}`);
+            expect(fr.landmarks.some((m) => m.id === lm.id)).toBe(true);
+            expect(lm.groundX).toBeCloseTo(fr.fixedPoint.groundX, 6);
+            expect(lm.groundY).toBeCloseTo(fr.fixedPoint.groundY, 6);
+          }
+          if (lm.decoy) expect(tr.frames.filter((f) => f.landmarks.some((m) => m.id === lm.id)).length).toBeGreaterThanOrEqual(2);
+        }
+      });
+
+      it('the horizon lies on rays of elevation 0; a fixed camera\'s road vanishing point on the ray along +x', () => {
+        for (const fr of tr.frames) {
+          if (fr.horizon) {
+            for (const [x, y] of [
+              [fr.horizon.x1, fr.horizon.y1],
+              [fr.horizon.x2, fr.horizon.y2],
+            ] as const) {
+              const d = rayThrough(tr, fr, x, y);
+              expect(Math.abs(d.z) / norm(d)).toBeLessThan(1e-9);
+            }
+            expect(fr.horizon.x1).toBe(tr.cameraFrame.left);
+            expect(fr.horizon.x2).toBe(tr.cameraFrame.right);
+          }
+          if (fr.roadVanishingPoint) {
+            const d = rayThrough(tr, fr, fr.roadVanishingPoint.x, fr.roadVanishingPoint.y);
+            expect(Math.hypot(d.y, d.z) / norm(d)).toBeLessThan(1e-9);
+            expect(d.x).toBeGreaterThan(0);
+          }
+          if (tr.camera.mode === 'fixed') {
+            expect(fr.camera.yawRad).toBeCloseTo((tr.camera.yawDeg ?? Number.NaN) * DEG, 12);
+            expect(fr.camera.pitchRad).toBeCloseTo((tr.camera.pitchDeg ?? Number.NaN) * DEG, 12);
+            expect(fr.roadVanishingPoint).not.toBeNull();
+          }
+          if (!tr.camera.shake) expect(fr.camera.rollRad).toBeCloseTo((tr.camera.rollDeg ?? 0) * DEG, 12);
+        }
+      });
+
+      if (tr.camera.landscapeHfovDeg !== undefined) {
+        it('the portrait field is the landscape profile\'s vertical field (phone-main-landscape-stabilised, central)', () => {
+          const land = tr.camera.landscapeHfovDeg ?? Number.NaN;
+          expect(land).toBeCloseTo(profileById('phone-main-landscape-stabilised').hfovDeg.central, 9);
+          expect(Math.tan((tr.camera.hfovDeg * DEG) / 2)).toBeCloseTo((Math.tan((land * DEG) / 2) * 9) / 16, 12);
+        });
+      }
     });
   }
 });
@@ -471,7 +678,7 @@ describe('fixture clips decode in Chromium and agree with their truth', () => {
     await server?.close();
   });
 
-  for (const name of names) {
+  for (const name of v1Names) {
     it(`${name}: size, duration, frame count and the object's ends (within 1 px) match the truth`, async () => {
       const tr = truthOf(name);
       const f = tr.cameraFrame;
@@ -503,6 +710,54 @@ describe('fixture clips decode in Chromium and agree with their truth', () => {
         }
       }
       // a half-pixel convention slip would shift every end the same way
+      const mean = errors.reduce((s, e) => s + e, 0) / errors.length;
+      expect(Math.abs(mean)).toBeLessThan(0.25);
+    });
+  }
+
+  for (const name of v2Names) {
+    it(`${name}: size, duration, frame count, and every length and wingspan end found along its line (within 1 px)`, async () => {
+      const tr = truth2Of(name);
+      const args: LinePageArgs = {
+        url: server.url(`/clips/${name}.webm`),
+        fps: tr.video.fps,
+        frames: tr.video.frames,
+        code: tr.frameCode,
+        marks: tr.frames.map((fr) => ({
+          t: fr.t,
+          index: fr.index,
+          lines: (['length', 'wingspan'] as const).flatMap((dim) => {
+            const sp = fr.spans[dim];
+            return sp ? [{ dim, x1: sp.x1, y1: sp.y1, x2: sp.x2, y2: sp.y2 }] : [];
+          }),
+        })),
+      };
+      const got = await page.evaluate(measureLinesInPage, args);
+      expect(got.width).toBe(tr.video.width);
+      expect(got.height).toBe(tr.video.height);
+      expect(got.duration).toBeCloseTo(tr.video.duration, 3);
+      expect(got.lastCode).toBe(tr.video.frames - 1);
+      const errors: number[] = [];
+      for (const fr of tr.frames) {
+        const m = got.frames.find((q) => q.index === fr.index);
+        if (!m) throw new Error(`frame ${fr.index} not measured`);
+        expect(m.code, `frame shown after seeking to ${fr.t}`).toBe(fr.index);
+        for (const line of m.lines) {
+          // pointed ends read short by a bias the truth documents; held within 1 px of truth + bias
+          const bias = line.dim === 'length' && tr.object.pointedEnds ? fr.endBiasPx : undefined;
+          if (tr.object.pointedEnds && line.dim === 'length' && !bias) throw new Error(`frame ${fr.index}: no documented bias`);
+          const e1 = line.out1 - (bias?.end1 ?? 0);
+          const e2 = line.out2 - (bias?.end2 ?? 0);
+          expect(Math.abs(e1), `${line.dim} end 1, frame ${fr.index}`).toBeLessThanOrEqual(1);
+          expect(Math.abs(e2), `${line.dim} end 2, frame ${fr.index}`).toBeLessThanOrEqual(1);
+          if (bias) {
+            expect(Math.abs(line.out1)).toBeLessThanOrEqual(Math.abs(bias.end1) + 1);
+            expect(Math.abs(line.out2)).toBeLessThanOrEqual(Math.abs(bias.end2) + 1);
+          }
+          errors.push(e1, e2);
+        }
+      }
+      // a half-pixel convention slip would push every end the same way
       const mean = errors.reduce((s, e) => s + e, 0) / errors.length;
       expect(Math.abs(mean)).toBeLessThan(0.25);
     });

@@ -1,6 +1,6 @@
 import type { FrameRect } from '../../src/case/frames';
 import type { Point } from '../../src/case/schema';
-import { solveFrame, type FrameResult } from '../../src/engine/uncertainty';
+import { solveFrame, type FrameResult } from '../../src/engine/frame-solve';
 import type { EngineAssumptions as LiveAssumptions } from '../../src/case/assumptions';
 
 export interface LiveFigures {

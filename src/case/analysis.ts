@@ -4,7 +4,8 @@ import { solvePass, type Conditioning, type PassHypothesis, type PassMarkFigures
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
 import { observationWindow } from '../engine/speed';
 import type { Estimate } from '../engine/stats';
-import { solveFrame, type FrameResult, type RegimeShares } from '../engine/uncertainty';
+import { solveFrame, type FrameResult } from '../engine/frame-solve';
+import type { RegimeShares } from '../engine/uncertainty';
 import { engineAssumptions, type EngineAssumptions } from './assumptions';
 import { cameraFrame, marksAt, spanInFrame, type FrameRect } from './frames';
 import { checkLandmarks, type LandmarkCheck } from './landmark-checks';

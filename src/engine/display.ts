@@ -1,6 +1,6 @@
 import { MAX_FRAME_PX } from './constants';
 import { InputError } from './errors';
-import { finite, inRange, positive } from './validate';
+import { inRange, positive } from './validate';
 
 /*
  * Where a <video>'s picture is drawn on screen, so that a pointer position (CSS px in the viewport)

@@ -1,12 +1,14 @@
 import { DEG } from '../../src/engine/constants';
-import { solveFrame, type FrameScene } from '../../src/engine/uncertainty';
-import { solveSeries, type SeriesScene } from '../../src/engine/series';
+import { solveFrame, type FrameScene } from '../../src/engine/frame-solve';
+import type { PassScene } from '../../src/engine/pass-inputs';
+import { Axis } from '../../src/engine/pass-model';
+import { solvePass } from '../../src/engine/pass-series';
 import { Rng } from '../../src/engine/rng';
 import { getHeapSpaceStatistics } from 'node:v8';
 
 /*
- * Engine benchmark: a single-frame solve with 20 000 draws and a range fit over 50 timestamps with
- * 2 000 bootstrap draws, as medians over repeated runs and as a fraction of a 16.7 ms display frame.
+ * Engine benchmark: a single-frame solve with 20 000 draws and the pass fitted to 50 timestamps of an
+ * invented pass, 2 000 bootstrap draws for each sign of the relative motion, as medians over repeated runs and as a fraction of a 16.7 ms display frame.
  * Allocation is read from the young generation's used size around one solve (new objects land
  * there), per solve and, as the slope between two draw counts, per draw. `npm run bench` gives Node a 256 MB young generation so that scavenges are rare; a
  * window in which one lands shows a drop and is left out. (A forced full collection between windows
@@ -24,17 +26,35 @@ export const frameScene: FrameScene = {
   observerSpeed: { lo: 24, hi: 30 },
 };
 
-export function seriesScene(n: number): SeriesScene {
+/** An invented pass marked by its length at 50 timestamps, a quarter of a second apart, with a horizon on each frame. */
+export function passScene(n: number): PassScene {
   const hfov = 66 * DEG;
   const f = W / 2 / Math.tan(hfov / 2);
   const rng = new Rng(77);
+  const D = 900;
+  const h = 150;
   const marks = Array.from({ length: n }, (_, i) => {
     const t = i * 0.25;
-    const R = Math.hypot(2500, 85 * (t - 7));
-    const half = f * (15 / R);
+    const x = 85 * (t - 7);
+    const R2 = x * x + D * D + h * h;
+    // a length on a parallel pass spans about L rho / R^2 (DESIGN.md)
+    const half = (f * (30 * Math.hypot(D, h))) / R2 / 2;
     return { t, span: { x1: W / 2 - half + 0.4 * rng.normal(), y1: 540, x2: W / 2 + half + 0.4 * rng.normal(), y2: 540, edgeSigmaPx: 0.4 } };
   });
-  return { frame: { widthPx: W, heightPx: H }, hfov: { lo: 62 * DEG, hi: 70 * DEG }, object: { size: { lo: 26, hi: 34 }, aspect: { lo: 90 * DEG, hi: 90 * DEG } }, marks, observerSpeed: { lo: 24, hi: 30 } };
+  const horizons = marks.map(({ t }) => ({ t, x1: 0, y1: 700, x2: W, y2: 700, sigmaPx: 0.5 }));
+  return {
+    frame: { widthPx: W, heightPx: H },
+    hfov: { lo: 62 * DEG, hi: 70 * DEG },
+    object: { size: { lo: 26, hi: 34 }, axis: Axis.LENGTH },
+    marks,
+    observerSpeed: { lo: 24, hi: 30 },
+    trackAngle: { lo: 0, hi: 0 },
+    cameraHeight: { lo: 1, hi: 3 },
+    horizons,
+    landmarks: [],
+    fixed: null,
+    elevation: { lo: 0, hi: 60 * DEG },
+  };
 }
 
 function youngUsed(): number {
@@ -102,9 +122,9 @@ export function measure(name: string, draws: number, run: (draws: number) => unk
 }
 
 export function engineBench(): BenchRow[] {
-  const series = seriesScene(50);
+  const pass = passScene(50);
   return [
     measure('single-frame solve, 20 000 draws', 20_000, (draws) => solveFrame(frameScene, { draws, seed: 1 })),
-    measure('range fit, 50 timestamps, 2 000 bootstrap draws', 2_000, (draws) => solveSeries(series, { draws, seed: 1 })),
+    measure('pass, 50 timestamps, 2 000 draws per sign, both signs', 2_000, (draws) => solvePass(pass, [-1, 1], { draws, seed: 1 })),
   ];
 }

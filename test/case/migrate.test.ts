@@ -5,7 +5,7 @@ import { parseCaseFile } from '../../src/case/casefile';
 import { MIGRATIONS, migrate, readCaseRecord } from '../../src/case/migrate';
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { validateCase } from '../../src/case/validate';
-import { recordArb, v1RecordArb, v2RecordArb } from './arbitraries';
+import { recordArb, v1RecordArb } from './arbitraries';
 import { failure } from './expect-format-error';
 
 const fixture = (name: string) => readFileSync(`test/case/fixtures/v1/${name}`, 'utf8');

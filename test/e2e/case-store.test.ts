@@ -6,7 +6,7 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { analyseCase } from '../../src/case/analysis';
 import { itemBytes } from '../../src/case/store-policy';
 import { summaryText } from '../../src/case/summary';
-import type { CaseRecord, Mark, VideoInfo } from '../../src/case/schema';
+import { SCHEMA_VERSION, type CaseRecord, type Mark, type VideoInfo } from '../../src/case/schema';
 import { CHROMIUM_ARGS, chromiumPath, E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, stopServiceWorker, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
 
@@ -147,7 +147,7 @@ describe('reading validates every record', () => {
     expect(await ask('case/get', { caseId: 'bad0000000000002' })).toBeNull();
     expect(Object.keys(await local(null))).toContain('quarantine:case:bad0000000000002');
     const v1Read = await ask<CaseRecord>('case/get', { caseId: v1.id });
-    expect(v1Read).toMatchObject({ schema: 2, status: 'open', tags: [], history: [] });
+    expect(v1Read).toMatchObject({ schema: SCHEMA_VERSION, status: 'open', tags: [], history: [] });
     expect(v1Read.marks).toEqual(v1.marks);
   });
 });

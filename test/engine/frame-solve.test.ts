@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { solveFrame, type FrameScene } from '../../src/engine/uncertainty';
+import { solveFrame, type FrameScene } from '../../src/engine/frame-solve';
 import { Rng } from '../../src/engine/rng';
 import { InputError } from '../../src/engine/errors';
 import { DEG } from '../../src/engine/constants';

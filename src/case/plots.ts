@@ -1,3 +1,4 @@
+import { closestApproach, fixedPointFractionAt, P, relativePosition } from '../engine/pass-model';
 import type { CaseAnalysis } from './analysis';
 
 /*
@@ -103,18 +104,35 @@ export function planView(a: CaseAnalysis, direction?: PlanView['direction']): Pl
   if (!reading) return null;
   const hyp = s.result.hypotheses.find((h) => h.readings.includes(reading));
   if (!hyp) return null;
-  const uM = (u.lo + u.hi) / 2;
+  // one consistent geometry: the nominal fit of this reading's sign, at the reading's median speed
+  // along the road (the same straight relative track, at the speed that reading gives)
+  const n = hyp.nominal;
+  const p = Float64Array.from(n.params);
+  const ca = new Float64Array(3);
+  closestApproach(p, n.u, n.tr, ca);
+  p[P.w] = reading.alongRoad.median / Math.cos(p[P.beta]!);
+  const vx = p[P.w]! * Math.cos(p[P.beta]!) - n.u;
+  const vy = p[P.w]! * Math.sin(p[P.beta]!);
+  // keep the time of closest approach: the object stands where the new speed puts it then
+  const rel = new Float64Array(3);
+  relativePosition(Float64Array.from(n.params), n.u, n.tr, ca[0]!, rel);
+  p[P.xr] = rel[0]! - vx * (ca[0]! - n.tr);
+  const yAt = rel[1]! - vy * (ca[0]! - n.tr);
+  p[P.rho] = Math.hypot(yAt, rel[2]!);
+  p[P.eps] = Math.atan2(rel[2]!, yAt);
   const sightLines = hyp.marks.map((m) => {
-    const ox = uM * m.t;
-    return { t: m.t, observer: { x: ox, y: 0 }, object: { x: ox + m.x.median, y: m.y.median } };
+    relativePosition(p, n.u, n.tr, m.t, rel);
+    const ox = n.u * m.t;
+    return { t: m.t, observer: { x: ox, y: 0 }, object: { x: ox + rel[0]!, y: rel[1]! } };
   });
   const fp = reading.fixedPoint;
   const ref = fp ? sightLines.find((l) => Math.abs(l.t - fp.t) < 1e-9) : undefined;
-  const frac = fp?.fraction.median;
+  const frac = ref ? fixedPointFractionAt(p, n.u, ref.object.x - ref.observer.x, ref.object.y) : Number.NaN;
   const fixedPoint =
-    fp && ref && frac !== undefined && Number.isFinite(frac)
-      ? { x: ref.observer.x + frac * (ref.object.x - ref.observer.x), y: frac * ref.object.y, fromRoad: fp.fromRoad.median }
+    ref && Number.isFinite(frac)
+      ? { x: ref.observer.x + frac * (ref.object.x - ref.observer.x), y: frac * ref.object.y, fromRoad: frac * ref.object.y }
       : null;
+  const uM = n.u;
   const refMark = hyp.marks[Math.floor((hyp.marks.length - 1) / 2)]!;
   const D = refMark.y.median;
   const xs = sightLines.flatMap((l) => [l.observer.x, l.object.x]).concat(fixedPoint ? [fixedPoint.x] : []);

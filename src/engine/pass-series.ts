@@ -80,6 +80,11 @@ export interface PassHypothesis {
   marks: PassMarkFigures[];
   readings: PassReading[];
   landmarks: LandmarkFigures[];
+  /**
+   * The nominal draw's fitted pass (pass-model.ts P order: w, beta, xr, rho, eps) with the observer's
+   * speed and the reference time it holds for: one consistent geometry, for drawing it.
+   */
+  nominal: { params: number[]; u: number; tr: number };
 }
 
 export interface Conditioning {
@@ -181,13 +186,15 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
   for (const s of usable) {
     const rng = new Rng(seed);
     const h = bootstrap(scene, d, sig, s.sgn, s.best, mask, rng, draws);
-    hypotheses.push({ ...h, sign: s.sgn, nominalChi2: s.chi2, residuals: residualCount, ruledOut: s.chi2 - bestChi2 > 9 });
+    toPhysical(s.best, s.sgn, d.u, phys);
+    const nominal = { params: Array.from(phys), u: d.u, tr: d.tr };
+    hypotheses.push({ ...h, sign: s.sgn, nominalChi2: s.chi2, residuals: residualCount, ruledOut: s.chi2 - bestChi2 > 9, nominal });
   }
   const lead = hypotheses.find((h) => !h.ruledOut) ?? hypotheses[0]!;
   return { hypotheses, elevationSources, conditioning: conditioning(d, sig, lead, usable.find((s) => s.sgn === lead.sign)!.best), draws, seed };
 }
 
-type Figures = Omit<PassHypothesis, 'sign' | 'nominalChi2' | 'residuals' | 'ruledOut'>;
+type Figures = Omit<PassHypothesis, 'sign' | 'nominalChi2' | 'residuals' | 'ruledOut' | 'nominal'>;
 
 function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number): Figures {
   const n = d0.n;

@@ -1,5 +1,6 @@
 import type { FrameRect } from '../../src/case/frames';
 import type { Point } from '../../src/case/schema';
+import { landmarkDimensionOf } from '../../src/case/marks';
 import { solveFrame, type FrameResult } from '../../src/engine/frame-solve';
 import type { EngineAssumptions as LiveAssumptions } from '../../src/case/assumptions';
 
@@ -53,7 +54,9 @@ function solveLive(
         frame: { widthPx: W, heightPx: H },
         hfov: a.hfov,
         object: { span: toSpan(object.points, object.edgeSigmaPx), size: a.objectSize, aspect: a.aspect },
-        ...(landmark ? { landmark: { span: toSpan(landmark.points, landmark.edgeSigmaPx), size: a.landmarkSize, aspect: a.aspect } } : {}),
+        // a landmark has its own dimension (marked upright: a height, no aspect; marked level: a width) and never the object's aspect
+        ...(landmark ? { landmark: { span: toSpan(landmark.points, landmark.edgeSigmaPx), size: a.landmarkSize, dimension: landmarkDimensionOf(landmark.points) } } : {}),
+        cameraHeight: a.cameraHeight,
       },
       { draws: 4000, seed: 1 },
     );

@@ -1,4 +1,4 @@
-import { SCHEMA_VERSION, type CaseAssumptions, type CaseRecord, type CaseStatus, type Mark, type VideoInfo } from './schema';
+import { SCHEMA_VERSION, type CaseAssumptions, type CaseRecord, type CaseStatus, type Mark, type Point, type VideoInfo } from './schema';
 
 /** A new, empty case for a video: open, untagged, with no earlier versions. */
 export function newCase(id: string, video: VideoInfo, toolVersion: string, now: number): CaseRecord {
@@ -40,4 +40,14 @@ export function withAnnotation(c: CaseRecord, a: { notes?: string; status?: Case
     ...(a.tags !== undefined ? { tags: [...a.tags] } : {}),
     updatedAt: now,
   };
+}
+
+/**
+ * The dimension a landmark span was marked along, from its direction: an upright landmark (a mast,
+ * a tower) is marked from its foot up to its top, so a span nearer the vertical is its height and one
+ * nearer the level is a width. Stored with the mark; nothing else has to be chosen to mark a landmark.
+ */
+export function landmarkDimensionOf(points: readonly Point[]): 'height' | 'width' {
+  const [a, b] = points as [Point, Point];
+  return Math.abs(b.y - a.y) >= Math.abs(b.x - a.x) ? 'height' : 'width';
 }

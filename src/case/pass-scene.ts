@@ -6,6 +6,7 @@ import type { HorizonLine, LandmarkBody } from '../engine/frame-solve';
 import type { Band } from '../engine/uncertainty';
 import type { EngineAssumptions } from './assumptions';
 import { marksAt, spanInFrame, type FrameRect } from './frames';
+import { landmarkDimensionOf } from './marks';
 import type { Mark, Point } from './schema';
 
 /*
@@ -69,7 +70,8 @@ export function axisOf(dimension: Mark['dimension']): AxisCode {
 
 /** A landmark mark as the engine takes it: its own size (by id, else the shared one) and dimension. */
 export function landmarkBody(m: Mark, a: EngineAssumptions, frame: FrameRect): LandmarkBody {
-  const dimension = m.landmarkDimension ?? 'height';
+  // marks made before a landmark carried its dimension: read it from the span's direction
+  const dimension = m.landmarkDimension ?? landmarkDimensionOf(m.points);
   return {
     span: spanInFrame(m, frame),
     size: (m.landmarkId !== undefined ? a.landmarkSizes.get(m.landmarkId) : undefined) ?? a.landmarkSize,

@@ -33,6 +33,35 @@ export interface Snap {
   strength: number;
   /** One-sigma uncertainty of the edge position along the direction, px, in [0.1, 3]. */
   sigmaPx: number;
+  /**
+   * Root of the second central moment of the unsmoothed gradient about the edge, within
+   * SPREAD_WINDOW_PX of it (px): how wide the edge is along the direction. A crisp straight edge
+   * across the direction at sub-pixel phase f gives sqrt(1/12 + f (1 - f) + 1/96); blur, slant and
+   * a tapering end widen it.
+   */
+  spreadPx: number;
+  /** Noise sigma of spreadPx, px, by the same linear propagation as sigmaPx (0 in a noise-free float image). */
+  spreadSigmaPx: number;
+}
+
+/** How snapAlong chooses among the edges inside its radius. */
+export interface SnapOptions {
+  /**
+   * 'strongest' (the default): the edge that stands out most. 'nearest': the significant edge
+   * nearest the point, tracked from the narrowest scale to the wider ones, so that a strong edge of
+   * other structure a few pixels off does not win over the weaker one under the point.
+   */
+  pick?: 'strongest' | 'nearest';
+  /** Only edges whose luminance changes with this sign along the direction (+1 rising, -1 falling). */
+  sign?: 1 | -1;
+  /** Widest smoothing scale used, px (0.5 to 3): wide filters merge the close edges of a small object. */
+  maxScalePx?: number;
+  /**
+   * Spacing of the three parallel lines averaged into the profile, px (0 to 1, default 1). Across
+   * a thin object the outer lines run along its sides and catch what stands on them (a fin, an
+   * engine), so a small object is profiled along a narrower band.
+   */
+  lineSpacingPx?: number;
 }
 
 const LUMA_R = 0.2126;
@@ -84,6 +113,18 @@ const CENTROID_BIAS_PX = 0.05;
 /** Bias of the parabola peak at smoothing scale s on a crisp edge is at most this / s (measured:
  * 0.19 px at 0.5, 0.05 at 1, 0.015 at 2, 0.01 at 3). */
 const PARABOLA_BIAS_PX = 0.1;
+/**
+ * Half-window of the spread, px: the tails of a wide window gather more noise than edge (its
+ * weights grow as the square of the distance). Two pixels hold the ramp of any taper whose bias a
+ * 1.5 px snap could correct, blurred by up to a pixel.
+ */
+const SPREAD_WINDOW_PX = 2;
+/** In 'nearest' mode a candidate must reach this share of the strongest peak in the window: in a
+ * noise-free picture the 5-sigma rule alone would take the ripple of an anti-aliased slant. */
+const NEAREST_MIN_SHARE = 0.15;
+/** In 'nearest' mode a wider scale must find the edge within this many of its own sigmas (plus a
+ * pixel) of where the narrower scale found it, or it has merged it with a neighbour and is not used. */
+const TRACK_SCALES = 1;
 const MIN_SIGMA_PX = 0.1;
 const MAX_SIGMA_PX = 3;
 /** Largest search radius accepted: the scratch buffers below are sized for it. */
@@ -92,6 +133,8 @@ export const MAX_SNAP_RADIUS_PX = 32;
 const LINES = 3;
 const LINE_MID = (LINES - 1) / 2;
 const LINE_SPACING_PX = 1;
+/** The spacing of the call under way (SnapOptions.lineSpacingPx). */
+let lineSpacing = LINE_SPACING_PX;
 /** Profile beyond the search radius: room for the widest kernel and the centroid window. */
 const MARGIN_PX = Math.max(WINDOW_MAX_PX, KERNEL_HALF_MAX * STEP_PX) + 2 * STEP_PX;
 const HALF_MAX = MAX_SNAP_RADIUS_PX + MARGIN_PX;
@@ -242,7 +285,7 @@ export function sampleLine(
  * check that the scatter of snapped edges matches it. The rest of the engine treats it as a normal
  * error along the span.
  */
-export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: number, radiusPx = 6): Snap | null {
+export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: number, radiusPx = 6, opts: SnapOptions = {}): Snap | null {
   checkGray(img);
   inRange('snap point x', x, 0, img.width, ' px');
   inRange('snap point y', y, 0, img.height, ' px');
@@ -251,6 +294,17 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
   const dl = Math.hypot(dirX, dirY);
   if (!(dl > 1e-9)) throw new InputError('snap direction', `(${dirX}, ${dirY})`, 'a non-zero vector');
   inRange('snap radius', radiusPx, 1, MAX_SNAP_RADIUS_PX, ' px');
+  const nearest = opts.pick === 'nearest';
+  if (opts.pick !== undefined && opts.pick !== 'strongest' && !nearest) throw new InputError('snap pick', opts.pick, "'strongest' or 'nearest'");
+  const wantSign = opts.sign ?? 0;
+  if (wantSign !== 0 && wantSign !== 1 && wantSign !== -1) throw new InputError('snap sign', opts.sign, '1 or -1');
+  let nSc = N_SCALES;
+  if (opts.maxScalePx !== undefined) {
+    inRange('snap widest scale', opts.maxScalePx, SCALES_PX[0]!, SCALES_PX[N_SCALES - 1]!, ' px');
+    nSc = 1;
+    while (nSc < N_SCALES && SCALES_PX[nSc]! <= opts.maxScalePx + 1e-9) nSc++;
+  }
+  lineSpacing = opts.lineSpacingPx === undefined ? LINE_SPACING_PX : inRange('snap line spacing', opts.lineSpacingPx, 0, LINE_SPACING_PX, ' px');
   const dx = dirX / dl;
   const dy = dirY / dl;
 
@@ -266,17 +320,27 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
 
   let best = -1;
   let firstReliable = -1;
-  for (let sc = 0; sc < N_SCALES; sc++) {
+  let track = halfCount;
+  for (let sc = 0; sc < nSc; sc++) {
     const g = GRADS[sc]!;
     smoothAndDifference(sc, n, g);
     for (let j = 1; j < n - 1; j++) sorted[j - 1] = g[j]!;
     // baseline: the median gradient over the whole profile, which a broad edge cannot dominate; it
     // removes a smooth ramp (vignetting, sky) that would otherwise count as edge everywhere
     const b = medianInPlace(sorted, n - 2);
-    const j = largestPeak(g, b, jLo, jHi);
+    let j: number;
+    if (nearest) {
+      const spHere = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, track, n, 1, true));
+      j = nearestPeak(g, b, jLo, jHi, track, wantSign, Math.max(DETECT_Z * spHere, MIN_RELATIVE_GRADIENT * level));
+      // a wider scale that finds it elsewhere has merged it with a neighbour
+      if (j >= 0 && best >= 0 && Math.abs(j - track) * h > 1 + TRACK_SCALES * SCALES_PX[sc]!) j = -1;
+    } else {
+      j = largestPeak(g, b, jLo, jHi, wantSign);
+    }
     scPeakAt[sc] = j;
     scZ[sc] = -1;
     if (j < 0) continue;
+    if (nearest && best < 0) track = j;
     const p = Math.abs(g[j]! - b);
     const sp = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, j, n, 1, true));
     const z = sp > 0 ? p / sp : Number.POSITIVE_INFINITY;
@@ -294,10 +358,10 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
   // best. The width comes from how the peak falls with scale: for an edge of Gaussian width w, the
   // peak at scale s goes as 1 / sqrt(w^2 + s^2).
   let scale = best;
-  if (firstReliable >= 0 && scPeakAt[N_SCALES - 1]! >= 0) {
+  if (firstReliable >= 0 && firstReliable < nSc - 1 && scPeakAt[nSc - 1]! >= 0) {
     const sa = SCALES_PX[firstReliable]!;
-    const sw = SCALES_PX[N_SCALES - 1]!;
-    const r2 = (scPeak[firstReliable]! / scPeak[N_SCALES - 1]!) ** 2;
+    const sw = SCALES_PX[nSc - 1]!;
+    const r2 = (scPeak[firstReliable]! / scPeak[nSc - 1]!) ** 2;
     const w2 = r2 > 1 ? (sw * sw - sa * sa * r2) / (r2 - 1) : Number.POSITIVE_INFINITY;
     if (w2 < CRISP_WIDTH_PX * CRISP_WIDTH_PX) scale = firstReliable;
   }
@@ -326,16 +390,25 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     const noiseSd = h * noise * functionalNorm(img, x, y, dx, dy, s0, h, n, coef);
     sigma = Math.hypot(noiseSd, PARABOLA_BIAS_PX / SCALES_PX[scale]!);
   }
+  const half = edgeWindow(grad, jPeak, peak, sign, base, sigmaPeak, n);
+  rawGradient(sign, base, n);
   if (scale === 0) {
-    const c = refineByCentroid(grad, jPeak, peak, sign, base, sigmaPeak, sParabola, s0, n);
+    const c = refineByCentroid(half, sParabola, s0, n);
     if (!Number.isNaN(c)) {
       offset = c;
-      const cn = centroidCoefficients(rawGrad, s0, h, n, c, centroidHalf, centroidMass, sign);
+      const cn = centroidCoefficients(rawGrad, s0, h, n, c, half, centroidMass, sign);
       sigma = Math.hypot(noise * functionalNorm(img, x, y, dx, dy, s0, h, n, cn), CENTROID_BIAS_PX);
     }
   }
   const sigmaPx = Math.min(MAX_SIGMA_PX, Math.max(MIN_SIGMA_PX, sigma));
-  return { x: x + offset * dx, y: y + offset * dy, offsetPx: offset, strength: peak, sigmaPx };
+  const spreadHalf = Math.min(half, SPREAD_WINDOW_PX);
+  const spreadPx = windowSpread(rawGrad, s0, h, n, offset, spreadHalf);
+  let spreadSigmaPx = 0;
+  if (spreadPx > 0 && noise > 0) {
+    const sn = spreadCoefficients(rawGrad, s0, h, n, offset, spreadHalf, spreadPx * spreadPx, sign);
+    spreadSigmaPx = (noise * functionalNorm(img, x, y, dx, dy, s0, h, n, sn)) / (2 * spreadPx);
+  }
+  return { x: x + offset * dx, y: y + offset * dy, offsetPx: offset, strength: peak, sigmaPx, spreadPx, spreadSigmaPx };
 }
 
 /** Fills prof[0..n) with the mean of the parallel lines; returns the largest |luminance| seen. */
@@ -347,7 +420,7 @@ function buildProfile(img: Gray, x: number, y: number, dx: number, dy: number, s
     const s = s0 + j * STEP_PX;
     let v = 0;
     for (let l = 0; l < LINES; l++) {
-      const t = (l - LINE_MID) * LINE_SPACING_PX;
+      const t = (l - LINE_MID) * lineSpacing;
       v += lumaAt(img, x + s * dx + t * px, y + s * dy + t * py);
     }
     v /= LINES;
@@ -371,13 +444,20 @@ function smoothAndDifference(sc: number, n: number, out: Float64Array): void {
   for (let j = 1; j < n - 1; j++) out[j] = (smooth[j + 1]! - smooth[j - 1]!) / (2 * STEP_PX);
 }
 
-/** Index of the largest strict local maximum of |g - base| in [jLo, jHi], or -1. */
-function largestPeak(g: Float64Array, base: number, jLo: number, jHi: number): number {
+/** Whether sample j is a strict local maximum of |g - base| of the wanted sign (0: either). */
+function isPeak(g: Float64Array, base: number, j: number, sign: number): boolean {
+  const v = g[j]! - base;
+  const a = Math.abs(v);
+  return a > 0 && (sign === 0 || sign * v > 0) && a >= Math.abs(g[j - 1]! - base) && a > Math.abs(g[j + 1]! - base);
+}
+
+/** Index of the largest strict local maximum of |g - base| in [jLo, jHi] (of the sign, if one), or -1. */
+function largestPeak(g: Float64Array, base: number, jLo: number, jHi: number, sign: number): number {
   let best = -1;
   let peak = 0;
   for (let j = jLo; j <= jHi; j++) {
     const a = Math.abs(g[j]! - base);
-    if (a > peak && a >= Math.abs(g[j - 1]! - base) && a > Math.abs(g[j + 1]! - base)) {
+    if (a > peak && isPeak(g, base, j, sign)) {
       peak = a;
       best = j;
     }
@@ -385,14 +465,28 @@ function largestPeak(g: Float64Array, base: number, jLo: number, jHi: number): n
   return best;
 }
 
-let centroidHalf = 0;
+/**
+ * Index of the local maximum of |g - base| in [jLo, jHi] nearest jRef that reaches the threshold
+ * and NEAREST_MIN_SHARE of the largest there (of the sign, if one), or -1.
+ */
+function nearestPeak(g: Float64Array, base: number, jLo: number, jHi: number, jRef: number, sign: number, threshold: number): number {
+  const top = largestPeak(g, base, jLo, jHi, sign);
+  if (top < 0) return -1;
+  const need = Math.max(threshold, NEAREST_MIN_SHARE * Math.abs(g[top]! - base));
+  let best = -1;
+  for (let j = jLo; j <= jHi; j++) {
+    if (Math.abs(g[j]! - base) >= need && isPeak(g, base, j, sign) && (best < 0 || Math.abs(j - jRef) < Math.abs(best - jRef))) best = j;
+  }
+  return best;
+}
+
 let centroidMass = 0;
 
 /**
- * The centroid of the unsmoothed gradient about the edge at jPeak (see snapAlong), or NaN when the
- * window holds no positive mass or the centroid leaves it. Sets centroidHalf and centroidMass.
+ * Half-width of the window that holds the edge at jPeak (see snapAlong): as wide as the gradient's
+ * spread, never past a valley into a neighbouring edge, at least MIN_WINDOW_PX.
  */
-function refineByCentroid(grad: Float64Array, jPeak: number, peak: number, sign: number, base: number, sigmaPeak: number, start: number, s0: number, n: number): number {
+function edgeWindow(grad: Float64Array, jPeak: number, peak: number, sign: number, base: number, sigmaPeak: number, n: number): number {
   const h = STEP_PX;
   const wSteps = Math.round(WINDOW_MAX_PX / h);
   const floor = Math.max(WINDOW_FLOOR * peak, 2 * sigmaPeak);
@@ -419,11 +513,22 @@ function refineByCentroid(grad: Float64Array, jPeak: number, peak: number, sign:
     }
     spread = Math.max(spread, k * h);
   }
-  const half = Math.max(MIN_WINDOW_PX, Math.min(spread, valley));
-  // unsmoothed gradient, baseline removed, signed so that the edge is positive
+  return Math.max(MIN_WINDOW_PX, Math.min(spread, valley));
+}
+
+/** rawGrad = the unsmoothed gradient, baseline removed, signed so that the edge is positive. */
+function rawGradient(sign: number, base: number, n: number): void {
   rawGrad[0] = 0;
   rawGrad[n - 1] = 0;
-  for (let k = 1; k < n - 1; k++) rawGrad[k] = sign * ((prof[k + 1]! - prof[k - 1]!) / (2 * h) - base);
+  for (let k = 1; k < n - 1; k++) rawGrad[k] = sign * ((prof[k + 1]! - prof[k - 1]!) / (2 * STEP_PX) - base);
+}
+
+/**
+ * The centroid of rawGrad about the edge, over a window of the given half-width, or NaN when the
+ * window holds no positive mass or the centroid leaves it. Sets centroidMass.
+ */
+function refineByCentroid(half: number, start: number, s0: number, n: number): number {
+  const h = STEP_PX;
   // mean shift: re-centre the window on its own centroid until it stays put, so that the noisy
   // first guess does not leave the window lopsided about the edge
   let c = start;
@@ -435,7 +540,6 @@ function refineByCentroid(grad: Float64Array, jPeak: number, peak: number, sign:
     c = r.c;
     if (moved < 1e-6) break;
   }
-  centroidHalf = half;
   return Math.abs(c - start) <= half ? c : Number.NaN;
 }
 
@@ -483,6 +587,46 @@ function windowCentroid(g: Float64Array, s0: number, h: number, n: number, c: nu
   return centroidOut;
 }
 
+/** Root of the second moment of g about c over [c - half, c + half] (weighted as windowCentroid), 0 without mass. */
+function windowSpread(g: Float64Array, s0: number, h: number, n: number, c: number, half: number): number {
+  const lo = c - half;
+  const hi = c + half;
+  const kl = Math.max(1, Math.floor((lo - s0) / h));
+  const kr = Math.min(n - 2, Math.ceil((hi - s0) / h));
+  let mass = 0;
+  let m2 = 0;
+  for (let k = kl; k <= kr; k++) {
+    const s = s0 + k * h;
+    const w = cellWeight(s, h, lo, hi) * g[k]!;
+    mass += w;
+    m2 += w * (s - c) * (s - c);
+  }
+  return mass > 0 && m2 > 0 ? Math.sqrt(m2 / mass) : 0;
+}
+
+/**
+ * Coefficients on the profile samples of the first-order change of windowSpread's square m2 about
+ * c: dm2 = sum w_k ((s_k - c)^2 - m2) dg_k / M (c held: at the centroid its own change drops out of
+ * the first order), with dg_k as in centroidCoefficients.
+ */
+function spreadCoefficients(g: Float64Array, s0: number, h: number, n: number, c: number, half: number, m2: number, sign: number): Float64Array {
+  coef.fill(0, 0, n);
+  const lo = c - half;
+  const hi = c + half;
+  const kl = Math.max(1, Math.floor((lo - s0) / h));
+  const kr = Math.min(n - 2, Math.ceil((hi - s0) / h));
+  let mass = 0;
+  for (let k = kl; k <= kr; k++) mass += cellWeight(s0 + k * h, h, lo, hi) * g[k]!;
+  if (!(mass > 0)) return coef;
+  for (let k = kl; k <= kr; k++) {
+    const s = s0 + k * h;
+    const w = (cellWeight(s, h, lo, hi) * ((s - c) * (s - c) - m2) * sign) / (mass * 2 * h);
+    coef[k + 1]! += w;
+    coef[k - 1]! -= w;
+  }
+  return coef;
+}
+
 /**
  * Coefficients on the profile samples of the first-order change of the window centroid c at its
  * fixed point: dc = [sum w_k (s_k - c) dg_k / M] / (1 - half (g(lo) + g(hi)) / M), the denominator
@@ -517,7 +661,7 @@ function clampIndex(j: number, n: number): number {
  */
 function functionalNorm(img: Gray, x: number, y: number, dx: number, dy: number, s0: number, h: number, n: number, c: Float64Array): number {
   const sEnd = s0 + (n - 1) * h;
-  const tMax = LINE_MID * LINE_SPACING_PX;
+  const tMax = LINE_MID * lineSpacing;
   const px = -dy;
   const py = dx;
   const gx0 = Math.floor(Math.min(x + s0 * dx, x + sEnd * dx) - tMax * Math.abs(px) - 0.5);
@@ -531,7 +675,7 @@ function functionalNorm(img: Gray, x: number, y: number, dx: number, dy: number,
     const cj = c[j]! / LINES;
     if (cj === 0) continue;
     const s = s0 + j * h;
-    const t = (Math.floor(q / n) - LINE_MID) * LINE_SPACING_PX;
+    const t = (Math.floor(q / n) - LINE_MID) * lineSpacing;
     const fx = x + s * dx + t * px - 0.5;
     const fy = y + s * dy + t * py - 0.5;
     const fi = Math.floor(fx);

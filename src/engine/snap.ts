@@ -1,27 +1,14 @@
-import { MAX_FRAME_PX } from './constants';
 import { InputError } from './errors';
-import { finite, inRange, integer } from './validate';
+import { checkGray, lumaAt, noiseSigma, NOISE_RADIUS_MAX_PX, type Gray } from './gray';
+import { centroidCoefficients, spreadCoefficients, windowCentroid, windowSpread } from './snap-moments';
+import { finite, inRange } from './validate';
+
+export { sampleCount, sampleLine, type Gray } from './gray';
 
 /*
- * Snapping a marked end to the edge under it, to a fraction of a pixel.
- *
- * Coordinates are the video's intrinsic pixels with pixel (i, j) covering [i, i+1) x [j, j+1): its
- * value sits at its centre (i + 0.5, j + 0.5). That is the convention of the marks themselves, so an
- * edge between pixels 9 and 10 lies at x = 10, and a snapped point needs no half-pixel shift.
- * Outside the image the border pixels are repeated (clamp to edge).
- *
- * Luminance is 0.2126 R + 0.7152 G + 0.0722 B (ITU-R BT.709 coefficients) applied to the values as
- * given. Canvas data are gamma-encoded, so this is luma rather than linear luminance; an edge's
- * position does not depend on that choice as long as it is the same on both sides of the edge.
+ * Snapping a marked end to the edge under it, to a fraction of a pixel (coordinates and luminance
+ * as in gray.ts).
  */
-
-export interface Gray {
-  data: Float32Array | Uint8ClampedArray;
-  width: number;
-  height: number;
-  /** 1 = one luminance value per pixel; 4 = RGBA as from canvas getImageData (alpha is ignored). */
-  channels: 1 | 4;
-}
 
 export interface Snap {
   /** The snapped point, intrinsic px. */
@@ -63,10 +50,6 @@ export interface SnapOptions {
    */
   lineSpacingPx?: number;
 }
-
-const LUMA_R = 0.2126;
-const LUMA_G = 0.7152;
-const LUMA_B = 0.0722;
 
 /** Sample spacing of the profile that snapAlong searches: fine enough for a parabola over 3 samples. */
 const STEP_PX = 0.25;
@@ -128,7 +111,7 @@ const TRACK_SCALES = 1;
 const MIN_SIGMA_PX = 0.1;
 const MAX_SIGMA_PX = 3;
 /** Largest search radius accepted: the scratch buffers below are sized for it. */
-export const MAX_SNAP_RADIUS_PX = 32;
+export const MAX_SNAP_RADIUS_PX = NOISE_RADIUS_MAX_PX;
 /** Parallel lines averaged into the profile, and their spacing across the direction. */
 const LINES = 3;
 const LINE_MID = (LINES - 1) / 2;
@@ -154,100 +137,7 @@ const rawGrad = new Float64Array(MAX_SAMPLES);
 const coef = new Float64Array(MAX_SAMPLES);
 const GRID_SIDE = Math.ceil(2 * HALF_MAX + (LINES - 1) * LINE_SPACING_PX) + 4;
 const grid = new Float64Array(GRID_SIDE * GRID_SIDE);
-const PATCH_SIDE = 2 * MAX_SNAP_RADIUS_PX + 14;
-const patchAbs = new Float32Array(PATCH_SIDE * PATCH_SIDE);
 
-function checkGray(img: Gray): void {
-  if (typeof img !== 'object' || img === null) throw new InputError('image', img, 'an object with data, width, height, channels');
-  integer('image width', img.width, 1, MAX_FRAME_PX);
-  integer('image height', img.height, 1, MAX_FRAME_PX);
-  if (img.channels !== 1 && img.channels !== 4) throw new InputError('image channels', img.channels, '1 or 4');
-  if (!(img.data instanceof Float32Array || img.data instanceof Uint8ClampedArray)) {
-    throw new InputError('image data', img.data, 'a Float32Array or Uint8ClampedArray');
-  }
-  const need = img.width * img.height * img.channels;
-  if (img.data.length < need) {
-    throw new InputError('image data length', img.data.length, `at least ${need} (width x height x channels)`);
-  }
-}
-
-function pixelLuma(img: Gray, i: number, j: number): number {
-  const d = img.data;
-  if (img.channels === 1) return d[j * img.width + i]!;
-  const k = (j * img.width + i) * 4;
-  return LUMA_R * d[k]! + LUMA_G * d[k + 1]! + LUMA_B * d[k + 2]!;
-}
-
-/** Bilinear luminance at (x, y), pixel centres at integer + 0.5, clamped to the border. */
-function lumaAt(img: Gray, x: number, y: number): number {
-  const fx = x - 0.5;
-  const fy = y - 0.5;
-  const fi = Math.floor(fx);
-  const fj = Math.floor(fy);
-  const tx = fx - fi;
-  const ty = fy - fj;
-  const wm = img.width - 1;
-  const hm = img.height - 1;
-  const i0 = fi < 0 ? 0 : fi > wm ? wm : fi;
-  const i1 = fi + 1 < 0 ? 0 : fi + 1 > wm ? wm : fi + 1;
-  const j0 = fj < 0 ? 0 : fj > hm ? hm : fj;
-  const j1 = fj + 1 < 0 ? 0 : fj + 1 > hm ? hm : fj + 1;
-  const top = (1 - tx) * pixelLuma(img, i0, j0) + tx * pixelLuma(img, i1, j0);
-  const bottom = (1 - tx) * pixelLuma(img, i0, j1) + tx * pixelLuma(img, i1, j1);
-  return (1 - ty) * top + ty * bottom;
-}
-
-/** Number of samples sampleLine takes: one every stepPx from the first end, up to the second. */
-export function sampleCount(x1: number, y1: number, x2: number, y2: number, stepPx = 0.25): number {
-  checkSegment(x1, y1, x2, y2, stepPx);
-  return countOf(x1, y1, x2, y2, stepPx);
-}
-
-function countOf(x1: number, y1: number, x2: number, y2: number, stepPx: number): number {
-  // the small slack keeps a length that is a whole number of steps from losing its last sample
-  return Math.floor(Math.hypot(x2 - x1, y2 - y1) / stepPx + 1e-9) + 1;
-}
-
-function checkSegment(x1: number, y1: number, x2: number, y2: number, stepPx: number): void {
-  const lo = -MAX_FRAME_PX;
-  const hi = 2 * MAX_FRAME_PX;
-  inRange('line start x', x1, lo, hi, ' px');
-  inRange('line start y', y1, lo, hi, ' px');
-  inRange('line end x', x2, lo, hi, ' px');
-  inRange('line end y', y2, lo, hi, ' px');
-  inRange('sample step', stepPx, 0.01, 16, ' px');
-}
-
-/**
- * Bilinear luminance samples along the segment from (x1, y1) toward (x2, y2), one every stepPx,
- * starting exactly at the first end; the last lies at the second end when the length is a whole
- * number of steps, else short of it by less than a step (sampleCount says how many). With out, the
- * samples are written into it (it must hold them) and out itself is returned when its length is
- * exactly the count, else a view of its first sampleCount entries.
- */
-export function sampleLine(
-  img: Gray,
-  x1: number,
-  y1: number,
-  x2: number,
-  y2: number,
-  stepPx = 0.25,
-  out?: Float32Array,
-): Float32Array {
-  checkGray(img);
-  checkSegment(x1, y1, x2, y2, stepPx);
-  const n = countOf(x1, y1, x2, y2, stepPx);
-  if (out !== undefined) {
-    if (!(out instanceof Float32Array)) throw new InputError('sample buffer', out, 'a Float32Array');
-    if (out.length < n) throw new InputError('sample buffer length', out.length, `at least ${n} (the number of samples)`);
-  }
-  const res = out ?? new Float32Array(n);
-  const len = Math.hypot(x2 - x1, y2 - y1);
-  const ux = len > 0 ? (x2 - x1) / len : 0;
-  const uy = len > 0 ? (y2 - y1) / len : 0;
-  for (let k = 0; k < n; k++) res[k] = lumaAt(img, x1 + k * stepPx * ux, y1 + k * stepPx * uy);
-  return res.length === n ? res : res.subarray(0, n);
-}
 
 /**
  * Snaps (x, y) to the strongest edge crossed by the line through it along (dirX, dirY) (any
@@ -396,7 +286,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     const c = refineByCentroid(half, sParabola, s0, n);
     if (!Number.isNaN(c)) {
       offset = c;
-      const cn = centroidCoefficients(rawGrad, s0, h, n, c, half, centroidMass, sign);
+      const cn = centroidCoefficients(coef, rawGrad, s0, h, n, c, half, centroidMass, sign);
       sigma = Math.hypot(noise * functionalNorm(img, x, y, dx, dy, s0, h, n, cn), CENTROID_BIAS_PX);
     }
   }
@@ -405,7 +295,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
   const spreadPx = windowSpread(rawGrad, s0, h, n, offset, spreadHalf);
   let spreadSigmaPx = 0;
   if (spreadPx > 0 && noise > 0) {
-    const sn = spreadCoefficients(rawGrad, s0, h, n, offset, spreadHalf, spreadPx * spreadPx, sign);
+    const sn = spreadCoefficients(coef, rawGrad, s0, h, n, offset, spreadHalf, spreadPx * spreadPx, sign);
     spreadSigmaPx = (noise * functionalNorm(img, x, y, dx, dy, s0, h, n, sn)) / (2 * spreadPx);
   }
   return { x: x + offset * dx, y: y + offset * dy, offsetPx: offset, strength: peak, sigmaPx, spreadPx, spreadSigmaPx };
@@ -559,98 +449,6 @@ function gradientCoefficients(sc: number, j: number, n: number, w: number, fresh
   return coef;
 }
 
-/** Fractional weight of sample cell [s - h/2, s + h/2] inside [lo, hi]. */
-function cellWeight(s: number, h: number, lo: number, hi: number): number {
-  const a = Math.max(s - 0.5 * h, lo);
-  const b = Math.min(s + 0.5 * h, hi);
-  return b > a ? (b - a) / h : 0;
-}
-
-const centroidOut = { c: 0, mass: 0 };
-
-/** Centroid of g over [c - half, c + half], end samples weighted by how much of their cell is inside. */
-function windowCentroid(g: Float64Array, s0: number, h: number, n: number, c: number, half: number): { c: number; mass: number } {
-  const lo = c - half;
-  const hi = c + half;
-  const kl = Math.max(1, Math.floor((lo - s0) / h));
-  const kr = Math.min(n - 2, Math.ceil((hi - s0) / h));
-  let mass = 0;
-  let moment = 0;
-  for (let k = kl; k <= kr; k++) {
-    const s = s0 + k * h;
-    const w = cellWeight(s, h, lo, hi) * g[k]!;
-    mass += w;
-    moment += w * s;
-  }
-  centroidOut.mass = mass;
-  centroidOut.c = mass > 0 ? moment / mass : c;
-  return centroidOut;
-}
-
-/** Root of the second moment of g about c over [c - half, c + half] (weighted as windowCentroid), 0 without mass. */
-function windowSpread(g: Float64Array, s0: number, h: number, n: number, c: number, half: number): number {
-  const lo = c - half;
-  const hi = c + half;
-  const kl = Math.max(1, Math.floor((lo - s0) / h));
-  const kr = Math.min(n - 2, Math.ceil((hi - s0) / h));
-  let mass = 0;
-  let m2 = 0;
-  for (let k = kl; k <= kr; k++) {
-    const s = s0 + k * h;
-    const w = cellWeight(s, h, lo, hi) * g[k]!;
-    mass += w;
-    m2 += w * (s - c) * (s - c);
-  }
-  return mass > 0 && m2 > 0 ? Math.sqrt(m2 / mass) : 0;
-}
-
-/**
- * Coefficients on the profile samples of the first-order change of windowSpread's square m2 about
- * c: dm2 = sum w_k ((s_k - c)^2 - m2) dg_k / M (c held: at the centroid its own change drops out of
- * the first order), with dg_k as in centroidCoefficients.
- */
-function spreadCoefficients(g: Float64Array, s0: number, h: number, n: number, c: number, half: number, m2: number, sign: number): Float64Array {
-  coef.fill(0, 0, n);
-  const lo = c - half;
-  const hi = c + half;
-  const kl = Math.max(1, Math.floor((lo - s0) / h));
-  const kr = Math.min(n - 2, Math.ceil((hi - s0) / h));
-  let mass = 0;
-  for (let k = kl; k <= kr; k++) mass += cellWeight(s0 + k * h, h, lo, hi) * g[k]!;
-  if (!(mass > 0)) return coef;
-  for (let k = kl; k <= kr; k++) {
-    const s = s0 + k * h;
-    const w = (cellWeight(s, h, lo, hi) * ((s - c) * (s - c) - m2) * sign) / (mass * 2 * h);
-    coef[k + 1]! += w;
-    coef[k - 1]! -= w;
-  }
-  return coef;
-}
-
-/**
- * Coefficients on the profile samples of the first-order change of the window centroid c at its
- * fixed point: dc = [sum w_k (s_k - c) dg_k / M] / (1 - half (g(lo) + g(hi)) / M), the denominator
- * because the window moves with c; dg_k = sign (dp_(k+1) - dp_(k-1)) / 2h.
- */
-function centroidCoefficients(g: Float64Array, s0: number, h: number, n: number, c: number, half: number, mass: number, sign: number): Float64Array {
-  coef.fill(0, 0, n);
-  const lo = c - half;
-  const hi = c + half;
-  const kl = Math.max(1, Math.floor((lo - s0) / h));
-  const kr = Math.min(n - 2, Math.ceil((hi - s0) / h));
-  const gLo = g[clampIndex(Math.round((lo - s0) / h), n)]!;
-  const gHi = g[clampIndex(Math.round((hi - s0) / h), n)]!;
-  const shrink = 1 - (half * (gLo + gHi)) / mass;
-  const scale = shrink > 0.1 ? 1 / (mass * shrink) : 10 / mass;
-  for (let k = kl; k <= kr; k++) {
-    const s = s0 + k * h;
-    const w = (cellWeight(s, h, lo, hi) * (s - c) * scale * sign) / (2 * h);
-    coef[k + 1]! += w;
-    coef[k - 1]! -= w;
-  }
-  return coef;
-}
-
 function clampIndex(j: number, n: number): number {
   return j < 0 ? 0 : j >= n ? n - 1 : j;
 }
@@ -702,44 +500,7 @@ function addWeight(i: number, j: number, w: number, side: number): void {
   if (i >= 0 && i < side && j >= 0 && j < side) grid[j * side + i]! += w;
 }
 
-/**
- * Pixel noise sigma around the search segment (Immerkaer 1996, median form), never below the
- * rounding noise of integer data.
- */
-function noiseSigma(img: Gray, x: number, y: number, dx: number, dy: number, r: number): number {
-  const pad = 6;
-  const i0 = Math.max(0, Math.floor(Math.min(x - r * dx, x + r * dx)) - pad);
-  const i1 = Math.min(img.width - 1, Math.floor(Math.max(x - r * dx, x + r * dx)) + pad);
-  const j0 = Math.max(0, Math.floor(Math.min(y - r * dy, y + r * dy)) - pad);
-  const j1 = Math.min(img.height - 1, Math.floor(Math.max(y - r * dy, y + r * dy)) + pad);
-  let m = 0;
-  for (let j = j0 + 1; j < j1; j++) {
-    for (let i = i0 + 1; i < i1; i++) {
-      const v =
-        pixelLuma(img, i - 1, j - 1) - 2 * pixelLuma(img, i, j - 1) + pixelLuma(img, i + 1, j - 1) -
-        2 * pixelLuma(img, i - 1, j) + 4 * pixelLuma(img, i, j) - 2 * pixelLuma(img, i + 1, j) +
-        pixelLuma(img, i - 1, j + 1) - 2 * pixelLuma(img, i, j + 1) + pixelLuma(img, i + 1, j + 1);
-      patchAbs[m++] = Math.abs(v);
-    }
-  }
-  // the mask's weights square-sum to 36, and the median of |N(0, 1)| is 0.67449
-  const est = m > 0 ? medianF32(patchAbs, m) / (6 * 0.6744897501960817) : 0;
-  const rounding = img.data instanceof Uint8ClampedArray ? roundingSigma(img.channels) : 0;
-  return Math.max(est, rounding);
-}
-
-function roundingSigma(channels: 1 | 4): number {
-  const w2 = channels === 1 ? 1 : LUMA_R * LUMA_R + LUMA_G * LUMA_G + LUMA_B * LUMA_B;
-  return Math.sqrt(w2 / 12);
-}
-
 function medianInPlace(a: Float64Array, m: number): number {
-  const v = a.subarray(0, m).sort();
-  const h = m >> 1;
-  return m % 2 === 1 ? v[h]! : 0.5 * (v[h - 1]! + v[h]!);
-}
-
-function medianF32(a: Float32Array, m: number): number {
   const v = a.subarray(0, m).sort();
   const h = m >> 1;
   return m % 2 === 1 ? v[h]! : 0.5 * (v[h - 1]! + v[h]!);

@@ -221,8 +221,6 @@ const patch = new Float32Array(PATCH * PATCH);
  * between pixel centres), more than a taper of a pixel adds, so each end is held against its own.
  */
 function crispSpread(x: number, y: number, dx: number, dy: number, spacing: number): number {
-  finite('crisp edge x', x);
-  finite('crisp edge y', y);
   const ox = Math.floor(x) - PATCH / 2;
   const oy = Math.floor(y) - PATCH / 2;
   const cx = x - ox;
@@ -233,33 +231,16 @@ function crispSpread(x: number, y: number, dx: number, dy: number, spacing: numb
   return s ? s.spreadPx : 0;
 }
 
-const poly = new Float64Array(16);
-
-/** Area of the pixel [i, i+1] x [j, j+1] where nx x + ny y > c (the square clipped by the half-plane). */
+/**
+ * Area of the pixel [i, i+1] x [j, j+1] where nx x + ny y > c: one minus the distribution function,
+ * at c, of nx x + ny y over the pixel, which is the sum of two uniforms of widths |nx| and |ny| (a
+ * trapezoid's distribution, measured from the pixel's corner where the sum is least).
+ */
 function halfPlaneCoverage(i: number, j: number, nx: number, ny: number, c: number): number {
-  const xs = [i, i + 1, i + 1, i];
-  const ys = [j, j, j + 1, j + 1];
-  let m = 0;
-  for (let k = 0; k < 4; k++) {
-    const k2 = (k + 1) % 4;
-    const fa = nx * xs[k]! + ny * ys[k]! - c;
-    const fb = nx * xs[k2]! + ny * ys[k2]! - c;
-    if (fa >= 0) {
-      poly[2 * m] = xs[k]!;
-      poly[2 * m + 1] = ys[k]!;
-      m++;
-    }
-    if (fa >= 0 !== fb >= 0) {
-      const t = fa / (fa - fb);
-      poly[2 * m] = xs[k]! + t * (xs[k2]! - xs[k]!);
-      poly[2 * m + 1] = ys[k]! + t * (ys[k2]! - ys[k]!);
-      m++;
-    }
-  }
-  let area = 0;
-  for (let k = 0; k < m; k++) {
-    const k2 = (k + 1) % m;
-    area += poly[2 * k]! * poly[2 * k2 + 1]! - poly[2 * k2]! * poly[2 * k + 1]!;
-  }
-  return Math.abs(area) / 2;
+  const a = Math.min(Math.abs(nx), Math.abs(ny));
+  const b = Math.max(Math.abs(nx), Math.abs(ny));
+  const t = c - nx * (nx < 0 ? i + 1 : i) - ny * (ny < 0 ? j + 1 : j);
+  // a = 0 (an edge along an axis) never reaches the branches that divide by it
+  const below = t <= 0 ? 0 : t >= a + b ? 1 : t < a ? (t * t) / (2 * a * b) : t <= b ? (2 * t - a) / (2 * b) : 1 - (a + b - t) ** 2 / (2 * a * b);
+  return 1 - below;
 }

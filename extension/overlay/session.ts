@@ -1,7 +1,7 @@
 import { caseIdFor, stripFragment } from '../../src/case/ids';
 import { POINTS_PER_KIND, type CaseRecord, type Mark, type MarkKind, type Point, type VideoInfo } from '../../src/case/schema';
 import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from '../../src/engine/display';
-import { snapAlong } from '../../src/engine/snap';
+import { handSigmaPx, intrinsicPerCssAlong, markSigmaPx } from '../../src/engine/span-ends';
 import { validateCase } from '../../src/case/validate';
 import { caseKey } from '../../src/case/schema';
 import { message, nativeApis, send } from '../shared/native';
@@ -13,15 +13,13 @@ import { assumedDimension, disagreement, type SpanDimension } from '../../src/ca
 import { forceStyle, h, svg } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
+import { snapSpan } from './snapping';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
 import { addMarkLayers, DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, panelParts, TOOLS } from './panel';
 import { drawShell, shellText, takeShell } from './shell';
 import { OVERLAY_CSS } from './styles';
 import { shadowRootsAround } from './videos';
-
-/** Until a snap says better (common practice: about the width of an anti-aliased edge). */
-const DEFAULT_EDGE_SIGMA_PX = 0.7;
 
 const COLOURS: Record<MarkKind, string> = {
   'object-span': 'var(--mark-object, #e8590c)',
@@ -38,6 +36,8 @@ interface Draft {
   kind: MarkKind;
   t: number;
   points: Point[];
+  /** Whether the lens showed as each point was placed (the hand's floor depends on it). */
+  lens: boolean[];
 }
 
 /**
@@ -62,6 +62,14 @@ export class MeasureSession {
   /** Set once the user picks a dimension here; until then new spans follow the case's size. */
   private dimensionPicked = false;
   private draft: Draft | null = null;
+  /**
+   * Each end's own sigma, for the marks placed or edited here: a mark stores one, the ends' root mean
+   * square, so an edit of one end needs the other's. A mark whose stored sigma no longer matches
+   * (edited elsewhere) falls back to that one sigma for both ends.
+   */
+  private readonly endSigmas = new Map<string, number[]>();
+  /** Why a snap left an end of a mark where the user put it, shown while the mark is in view. */
+  private readonly snapNotes = new Map<string, string>();
   private selected: { markId: string; end: number } | null = null;
   private cursor: Point | null = null;
   private mapping: Mapping | null = null;
@@ -364,11 +372,11 @@ export class MeasureSession {
   /* ---------------------------------------------------------------------------------------- */
   /* Pointer                                                                                   */
 
-  private startDraft(p: Point): void {
+  private startDraft(p: Point, lens: boolean): void {
     const v = this.video;
     // marks are taken on a paused frame
     if (!v.paused) v.pause();
-    this.draft = { kind: this.tool, t: v.currentTime, points: [p] };
+    this.draft = { kind: this.tool, t: v.currentTime, points: [p], lens: [lens] };
     if (POINTS_PER_KIND[this.tool] === 1) void this.commitDraft();
   }
 
@@ -380,7 +388,7 @@ export class MeasureSession {
     this.surface.focus();
     this.surface.setPointerCapture(e.pointerId);
     this.cursor = p;
-    this.startDraft(p);
+    this.startDraft(p, this.lensShowing());
     this.redraw();
   }
 
@@ -399,10 +407,12 @@ export class MeasureSession {
     if (!this.draft || POINTS_PER_KIND[this.draft.kind] !== 2) return;
     const p = this.toIntrinsic(e);
     if (p) this.draft.points[1] = p;
+    this.draft.lens[1] = this.lensShowing();
     const [a, b] = this.draft.points;
     if (!a || !b || Math.hypot(b.x - a.x, b.y - a.y) < 1) {
       // a click, not a drag: the next click or Enter places the second end
       this.draft.points = [a ?? p!];
+      this.draft.lens.length = 1;
       this.say(message('ovlFirstEndPointer'));
       return;
     }
@@ -546,10 +556,11 @@ export class MeasureSession {
     this.cursor ??= { x: v.videoWidth / 2, y: v.videoHeight / 2 };
     const p = { ...this.cursor };
     if (!this.draft) {
-      this.startDraft(p);
+      this.startDraft(p, false);
       if (this.draft) this.say(message('ovlFirstEndKeys'));
     } else {
       this.draft.points[1] = p;
+      this.draft.lens[1] = false;
       void this.commitDraft();
     }
     this.redraw();
@@ -558,8 +569,14 @@ export class MeasureSession {
   private nudge(dx: number, dy: number): void {
     const m = this.selectedMark();
     if (m && this.selected) {
-      const points = m.points.map((p, i) => (i === this.selected!.end ? { x: p.x + dx, y: p.y + dy } : p));
-      this.replaceMark({ ...m, points }, true);
+      const end = this.selected.end;
+      const points = m.points.map((p, i) => (i === end ? { x: p.x + dx, y: p.y + dy } : p));
+      // an end moved by hand is worth what the hand is, whatever a snap had claimed for it
+      const sigmas = this.sigmasOf(m);
+      sigmas[end] = this.handSigma(points, false);
+      this.endSigmas.set(m.id, sigmas);
+      this.snapNotes.delete(m.id);
+      this.replaceMark({ ...m, points, edgeSigmaPx: oneSigma(sigmas) }, true);
       const p = points[this.selected.end]!;
       this.say(message('ovlEndAt', [String(this.selected.end + 1), p.x.toFixed(1), p.y.toFixed(1)]));
       return;
@@ -567,7 +584,10 @@ export class MeasureSession {
     const v = this.video;
     const c = this.cursor ?? { x: v.videoWidth / 2, y: v.videoHeight / 2 };
     this.cursor = { x: c.x + dx, y: c.y + dy };
-    if (this.draft && POINTS_PER_KIND[this.draft.kind] === 2) this.draft.points[1] = this.cursor;
+    if (this.draft && POINTS_PER_KIND[this.draft.kind] === 2) {
+      this.draft.points[1] = this.cursor;
+      this.draft.lens[1] = false;
+    }
     this.redraw();
   }
 
@@ -593,73 +613,93 @@ export class MeasureSession {
     if (!d || !this.record) return;
     this.draft = null;
     let points = d.points.slice(0, POINTS_PER_KIND[d.kind]);
-    let sigma = DEFAULT_EDGE_SIGMA_PX;
+    let sigmas = points.map((_, i) => this.handSigma(points, d.lens[i] ?? false));
+    let note = '';
     if (points.length === 2 && (d.kind === 'object-span' || d.kind === 'landmark-span')) {
-      const snapped = await this.snapSpan(points as [Point, Point]);
-      if (snapped) ({ points, sigma } = snapped);
+      // snapping is an aid: if reading pixels fails, the mark is kept as placed
+      const img = await this.pixels.get().catch(() => null);
+      this.describeVideo();
+      if (img) ({ points, sigmas, note } = snapSpan(img, points as [Point, Point], sigmas as [number, number], 'both'));
     }
     const mark: Mark = {
       id: `m${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`,
       kind: d.kind,
       t: d.t,
       points,
-      edgeSigmaPx: sigma,
+      edgeSigmaPx: oneSigma(sigmas),
       ...(d.kind === 'object-span' ? { dimension: this.dimension } : {}),
       mapping: this.mappingRecord(),
       // who marked it, when the user gave a name in the settings (no account: just the name)
       ...(this.markerName ? { by: this.markerName } : {}),
       createdAt: Date.now(),
     };
+    this.endSigmas.set(mark.id, sigmas);
+    if (note) this.snapNotes.set(mark.id, note);
     this.selected = { markId: mark.id, end: points.length - 1 };
     await this.replaceMark(mark, false);
   }
 
-  /** Snaps both ends of a span to the edges under them, along the span; null if nothing to snap to. */
-  private async snapSpan([a, b]: [Point, Point]): Promise<{ points: Point[]; sigma: number } | null> {
-    // snapping is an aid: if reading pixels fails, the mark is kept as placed
-    const img = await this.pixels.get().catch(() => null);
-    this.describeVideo();
-    if (!img) return null;
-    const len = Math.hypot(b.x - a.x, b.y - a.y);
-    const ux = (b.x - a.x) / len;
-    const uy = (b.y - a.y) / len;
-    const radius = Math.min(6, len / 3);
-    const sa = snapAlong(img, a.x, a.y, ux, uy, radius);
-    const sb = snapAlong(img, b.x, b.y, ux, uy, radius);
-    if (!sa && !sb) return null;
-    return {
-      points: [sa ? { x: sa.x, y: sa.y } : a, sb ? { x: sb.x, y: sb.y } : b],
-      sigma: Math.max(sa?.sigmaPx ?? DEFAULT_EDGE_SIGMA_PX, sb?.sigmaPx ?? DEFAULT_EDGE_SIGMA_PX),
-    };
-  }
-
+  /** The snap key: the selected end only, by the same rules as on release. */
   private async snapSelected(): Promise<void> {
     const m = this.selectedMark();
-    if (!m || m.points.length !== 2 || !this.selected) return;
+    const sel = this.selected;
+    if (!m || m.points.length !== 2 || !sel) return;
     const img = await this.pixels.get().catch(() => null);
     if (!img) {
       this.say(message('ovlSnapOff'));
       return;
     }
-    const [a, b] = m.points as [Point, Point];
-    const len = Math.hypot(b.x - a.x, b.y - a.y);
-    const p = m.points[this.selected!.end]!;
-    const s = snapAlong(img, p.x, p.y, (b.x - a.x) / len, (b.y - a.y) / len, 6);
-    if (!s) {
+    const sigmas = this.sigmasOf(m);
+    const points = m.points as [Point, Point];
+    // the snap must do better than a hand placement at this zoom, whatever the end claims now
+    const offered: [number, number] = [sigmas[0]!, sigmas[1]!];
+    offered[sel.end] = this.handSigma(points, false);
+    const s = snapSpan(img, points, offered, sel.end as 0 | 1);
+    const r = s.results[sel.end as 0 | 1];
+    if (r.outcome === 'no-edge') {
       this.say(message('ovlNoEdge'));
       return;
     }
-    const sel = this.selected;
-    if (!sel) return;
-    const points = m.points.map((q, i) => (i === sel.end ? { x: s.x, y: s.y } : q));
-    await this.replaceMark({ ...m, points, edgeSigmaPx: Math.max(m.edgeSigmaPx, s.sigmaPx) }, false);
-    this.say(message('ovlSnapped', s.sigmaPx.toFixed(2)));
+    if (r.outcome !== 'snapped') {
+      this.snapNotes.set(m.id, s.note);
+      this.redraw();
+      this.say(s.note);
+      return;
+    }
+    sigmas[sel.end] = r.sigmaPx;
+    this.endSigmas.set(m.id, sigmas);
+    this.snapNotes.delete(m.id);
+    await this.replaceMark({ ...m, points: s.points, edgeSigmaPx: oneSigma(sigmas) }, false);
+    this.say(message('ovlSnapped', r.sigmaPx.toFixed(2)));
+  }
+
+  /** Each end's sigma: as placed or edited here, else the mark's one sigma for both. */
+  private sigmasOf(m: Mark): number[] {
+    const own = this.endSigmas.get(m.id);
+    return own && own.length === m.points.length && Math.abs(oneSigma(own) - m.edgeSigmaPx) < 1e-9 ? own.slice() : m.points.map(() => m.edgeSigmaPx);
+  }
+
+  /** The hand's floor for an end of these points at the zoom of the moment (span-ends.ts). */
+  private handSigma(points: readonly Point[], lens: boolean): number {
+    const [a, b] = points;
+    // a single point, or two at one place: along x
+    const along = a && b && (b.x !== a.x || b.y !== a.y);
+    const dx = along ? b.x - a.x : 1;
+    const dy = along ? b.y - a.y : 0;
+    const m = this.currentMapping();
+    // without a mapping (no picture yet) one video pixel per CSS pixel
+    return handSigmaPx(m ? intrinsicPerCssAlong(m, dx, dy) : 1, lens);
+  }
+
+  private lensShowing(): boolean {
+    return this.magnifier.style.display === 'block';
   }
 
   private async removeSelected(): Promise<void> {
     const m = this.selectedMark();
     if (!m) return;
     this.selected = null;
+    this.snapNotes.delete(m.id);
     try {
       this.adopt(await send('mark/remove', { caseId: this.caseId, markId: m.id }));
       this.say(message('ovlRemoved'));
@@ -760,12 +800,14 @@ export class MeasureSession {
   private updateReadout(here: Mark[], frame: ReturnType<typeof cameraFrame>): void {
     const a = this.assumptions;
     const draftSpan = this.draft && this.draft.kind === 'object-span' && this.draft.points.length === 2 ? this.draft : null;
-    const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: DEFAULT_EDGE_SIGMA_PX } : here.find((x) => x.kind === 'object-span');
+    const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: this.handSigma(draftSpan.points, false) } : here.find((x) => x.kind === 'object-span');
+    const noteText = here.map((x) => this.snapNotes.get(x.id)).find((x) => x);
+    const note = noteText ? [h('div', { class: 'notice', 'data-testid': 'snap-note' }, noteText)] : [];
     const lm = here.find((x) => x.kind === 'landmark-span') ?? null;
     const t = this.video.currentTime;
     const head = h('div', { class: 'muted' }, message(this.savedCount === 1 ? 'ovlFrameHeadOne' : 'ovlFrameHead', [timestamp(t), String(this.savedCount)]));
     if (!obj) {
-      this.readoutEl.replaceChildren(head, h('div', {}, TOOLS.find((x) => x.kind === this.tool)!.hint));
+      this.readoutEl.replaceChildren(head, h('div', {}, TOOLS.find((x) => x.kind === this.tool)!.hint), ...note);
       return;
     }
     const f = liveFigures(obj, lm, frame, a);
@@ -783,6 +825,7 @@ export class MeasureSession {
     const marked = draftSpan ? this.dimension : (obj as Mark).dimension;
     const mismatch = this.sizeMismatch(marked);
     if (mismatch) lines.push(h('div', { class: 'notice', 'data-testid': 'dimension-mismatch' }, mismatch));
+    lines.push(...note);
     const broadside = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9;
     // the labels are stored in the case (data); only the sentence around them is ours
     lines.push(h('div', { class: 'muted' }, message(broadside ? 'ovlAssumingBroadside' : 'ovlAssumingAspect', [a.sizeLabel, a.cameraLabel.toLowerCase()])));
@@ -798,11 +841,16 @@ export class MeasureSession {
   }
 
   private announceFigures(mark: Mark): void {
-    if (mark.kind !== 'object-span' || !this.record) return;
+    const note = this.snapNotes.get(mark.id);
+    const speak = (text: string) => this.say(note ? `${text} ${note}` : text);
+    if (mark.kind !== 'object-span' || !this.record) {
+      if (note) this.say(note);
+      return;
+    }
     const frame = cameraFrame(this.record.marks, this.video.videoWidth, this.video.videoHeight);
     const f = liveFigures(mark, null, frame, this.assumptions);
-    if (f) this.say(message('ovlSavedSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize), distanceEstimate(f.result.range, this.system)]));
-    else this.say(message('ovlSaved'));
+    if (f) speak(message('ovlSavedSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize), distanceEstimate(f.result.range, this.system)]));
+    else speak(message('ovlSaved'));
   }
 
   private say(text: string): void {
@@ -827,4 +875,9 @@ export class MeasureSession {
   focus(): void {
     this.surface.focus();
   }
+}
+
+/** A mark's one sigma from its ends' (markSigmaPx: root mean square; one end: its own). */
+function oneSigma(sigmas: readonly number[]): number {
+  return sigmas.length === 2 ? markSigmaPx(sigmas[0]!, sigmas[1]!) : sigmas[0]!;
 }

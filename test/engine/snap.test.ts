@@ -448,6 +448,98 @@ describe('snapAlong: noise (seeded) and sigmaPx', () => {
   });
 });
 
+describe('snapAlong: choosing among edges (issue 12)', () => {
+  // a weak edge under the point and a strong one 3.8 px on, both crisp and noise-free
+  const img = render(44, 12, [vertical(20.3, 50, 0), vertical(24.1, 150, 0)]);
+
+  it("'nearest' takes the edge nearest the point where 'strongest' takes the stronger one", () => {
+    expect(Math.abs(snapAlong(img, 20.9, 6, 1, 0, 5)!.x - 24.1)).toBeLessThan(0.05);
+    expect(Math.abs(snapAlong(img, 20.9, 6, 1, 0, 5, { pick: 'nearest' })!.x - 20.3)).toBeLessThan(0.05);
+    // from beyond the strong edge, the strong edge is the nearer
+    expect(Math.abs(snapAlong(img, 24.7, 6, -1, 0, 5, { pick: 'nearest' })!.x - 24.1)).toBeLessThan(0.05);
+  });
+
+  it("'nearest' passes over an edge weaker than 0.15 of the strongest in a noise-free picture", () => {
+    const faint = render(44, 12, [vertical(20.3, 15, 0), vertical(24.1, 150, 0)]);
+    expect(Math.abs(snapAlong(faint, 20.5, 6, 1, 0, 5, { pick: 'nearest' })!.x - 24.1)).toBeLessThan(0.05);
+  });
+
+  it('sign keeps only edges whose luminance rises (+1) or falls (-1) along the direction', () => {
+    // bright bar from 20.3 to 24.1 on a dark ground: rising at 20.3, falling at 24.1 going +x
+    const bar = render(44, 12, [vertical(20.3, 150, 0), vertical(24.1, -150, 0)]);
+    expect(Math.abs(snapAlong(bar, 22, 6, 1, 0, 5, { sign: 1 })!.x - 20.3)).toBeLessThan(0.05);
+    expect(Math.abs(snapAlong(bar, 22, 6, 1, 0, 5, { sign: -1 })!.x - 24.1)).toBeLessThan(0.05);
+    expect(Math.abs(snapAlong(bar, 21, 6, -1, 0, 5, { pick: 'nearest', sign: 1 })!.x - 24.1)).toBeLessThan(0.05);
+    expect(snapAlong(render(44, 12, [vertical(20.3, 150, 0)]), 21, 6, 1, 0, 4, { sign: -1 })).toBeNull();
+  });
+
+  it('still finds a crisp edge within 0.05 px with the widest scale capped and the lines drawn closer', () => {
+    for (const f of [0, 0.3, 0.7]) {
+      const e = vertical(20 + f);
+      const r = snapAlong(render(44, 14, [e]), 21.2, 7.3, -1, 0, 3, { pick: 'nearest', maxScalePx: 0.5, lineSpacingPx: 0.4 })!;
+      expect(Math.abs(r.x - e.c)).toBeLessThan(0.05);
+    }
+  });
+
+  it('rejects a bad pick, sign, widest scale or line spacing, naming the field', () => {
+    expectInputError(() => snapAlong(img, 21, 6, 1, 0, 4, { pick: 'first' as 'nearest' }), 'snap pick');
+    expectInputError(() => snapAlong(img, 21, 6, 1, 0, 4, { sign: 2 as 1 }), 'snap sign');
+    expectInputError(() => snapAlong(img, 21, 6, 1, 0, 4, { maxScalePx: 0.2 }), 'snap widest scale');
+    expectInputError(() => snapAlong(img, 21, 6, 1, 0, 4, { lineSpacingPx: 1.5 }), 'snap line spacing');
+  });
+});
+
+describe('snapAlong: spreadPx, the width of the edge along the direction', () => {
+  it('on a crisp edge at sub-pixel phase f is sqrt(1/12 + f (1 - f) + 1/96), to 0.002 px', () => {
+    // the moment method: the pixel's box has variance 1/12; linear interpolation between pixel
+    // centres splits the step over two unit intervals with weights 1 - f and f, adding f (1 - f);
+    // the central difference on the 0.25 px grid, summed by the trapezoid rule, adds h^2 / 6
+    for (let f = 0; f < 1; f += 0.125) {
+      const r = snapAlong(render(44, 12, [vertical(20 + f)]), 21, 6, -1, 0, 3)!;
+      expect(Math.abs(r.spreadPx - Math.sqrt(1 / 12 + f * (1 - f) + 1 / 96))).toBeLessThan(0.002);
+      expect(r.spreadSigmaPx).toBe(0);
+    }
+  });
+
+  it('grows with blur, averaged over sub-pixel phases', () => {
+    const mean = (blur: number) => {
+      let m = 0;
+      for (let f = 0; f < 1; f += 0.125) m += snapAlong(render(44, 12, [vertical(20 + f, 150, blur)]), 21, 6, -1, 0, 3)!.spreadPx ** 2 / 8;
+      return m;
+    };
+    const [b0, b05, b1] = [mean(0), mean(0.5), mean(1)];
+    // f (1 - f) averaged over f = 0, 1/8, ..., 7/8 is 21/128
+    expect(b0).toBeCloseTo(1 / 12 + 21 / 128 + 1 / 96, 3);
+    // within its 2 px window a blur of sigma s adds about s^2 (a little less as the tails leave it)
+    expect(b05 - b0).toBeGreaterThan(0.7 * 0.25);
+    expect(b05 - b0).toBeLessThan(0.25);
+    expect(b1 - b05).toBeGreaterThan(0.3);
+  });
+
+  it('spreadSigmaPx matches the scatter of spreadPx in noise (ratio 0.7 to 1.4)', () => {
+    const rng = new Rng(5);
+    for (const [blur, sd] of [
+      [0, 10],
+      [0.5, 10],
+      [1, 6],
+    ] as const) {
+      const v: number[] = [];
+      let claimed = 0;
+      for (let t = 0; t < 150; t++) {
+        const r = snapAlong(withNoise(render(44, 24, [vertical(20.37, 100, blur)]), sd, rng), 20.37 + rng.between(-2, 2), 12, -1, 0, 3);
+        if (!r) continue;
+        v.push(r.spreadPx);
+        claimed += r.spreadSigmaPx ** 2;
+      }
+      const mean = v.reduce((a, b) => a + b, 0) / v.length;
+      const scatter = Math.sqrt(v.reduce((a, b) => a + (b - mean) ** 2, 0) / (v.length - 1));
+      const ratio = scatter / Math.sqrt(claimed / v.length);
+      expect(ratio).toBeGreaterThan(0.7);
+      expect(ratio).toBeLessThan(1.4);
+    }
+  });
+});
+
 describe('snapAlong: invalid input', () => {
   const img = render(20, 20, [vertical(10.3)]);
   it('rejects bad points, directions and radii, naming the field', () => {

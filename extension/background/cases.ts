@@ -6,7 +6,7 @@ import { newCase, upsertMark, removeMark, withAnnotation, withAssumptions, withV
 import { readCaseRecord } from '../../src/case/migrate';
 import { caseKey, type CaseAssumptions, type CaseRecord, type CaseStatus, type Mark, type VideoInfo } from '../../src/case/schema';
 import { stripFragment } from '../../src/case/ids';
-import { defaultAssumptions } from '../../src/case/assumptions';
+import { assumptionsFromSettings } from '../../src/case/case-settings';
 import { DEFAULT_SETTINGS, readSettings, SETTINGS_KEY } from '../../src/case/settings';
 import {
   addedBytes,
@@ -163,7 +163,7 @@ export function openCase(id: string, video: VideoInfo, version: string): Promise
       const settings = readSettings((await browser.storage.local.get(SETTINGS_KEY))[SETTINGS_KEY]);
       const fresh = newCase(id, video, version, now);
       const custom = settings.cameraProfile !== DEFAULT_SETTINGS.cameraProfile || settings.observerSpeedMs;
-      return write(custom ? withAssumptions(fresh, defaultAssumptions(settings), now) : fresh);
+      return write(custom ? withAssumptions(fresh, assumptionsFromSettings(settings), now) : fresh);
     }
     // refresh what the page tells us now (a title or duration that arrived late), keep the marks
     const changed = existing.video.pageTitle !== video.pageTitle || existing.video.duration !== video.duration;

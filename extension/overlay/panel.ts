@@ -14,13 +14,16 @@ export interface ToolDef {
   hint: string;
 }
 
-/* Our own names for the marking tools; the keys 1-5 choose them. */
+/* Our own names for the marking tools; the keys 1-8 choose them. */
 export const TOOLS: readonly ToolDef[] = [
   { kind: 'object-span', label: message('ovlToolObject'), key: '1', hint: message('ovlToolObjectHint') },
   { kind: 'landmark-span', label: message('ovlToolLandmark'), key: '2', hint: message('ovlToolLandmarkHint') },
   { kind: 'frame-edges', label: message('ovlToolEdges'), key: '3', hint: message('ovlToolEdgesHint') },
   { kind: 'lane-dash', label: message('ovlToolLane'), key: '4', hint: message('ovlToolLaneHint') },
   { kind: 'object-centre', label: message('ovlToolCentre'), key: '5', hint: message('ovlToolCentreHint') },
+  { kind: 'horizon', label: message('ovlToolHorizon'), key: '6', hint: message('ovlToolHorizonHint') },
+  { kind: 'frame-top-bottom', label: message('ovlToolRows'), key: '7', hint: message('ovlToolRowsHint') },
+  { kind: 'road-ahead', label: message('ovlToolRoad'), key: '8', hint: message('ovlToolRoadHint') },
 ];
 
 /** The tool chosen when a session starts. */

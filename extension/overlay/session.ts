@@ -2,13 +2,13 @@ import { caseIdFor, stripFragment } from '../../src/case/ids';
 import { POINTS_PER_KIND, type CaseRecord, type Mark, type MarkKind, type Point, type VideoInfo } from '../../src/case/schema';
 import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from '../../src/engine/display';
 import { handSigmaPx, intrinsicPerCssAlong, markSigmaPx } from '../../src/engine/span-ends';
-import { validateCase } from '../../src/case/validate';
 import { caseKey } from '../../src/case/schema';
 import { message, nativeApis, send } from '../shared/native';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
 import { cameraFrame, marksAt } from '../../src/case/frames';
+import { landmarkDimensionOf } from '../../src/case/marks';
 import { assumedDimension, disagreement, type SpanDimension } from '../../src/case/size-match';
 import { forceStyle, h, svg } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
@@ -194,15 +194,22 @@ export class MeasureSession {
       this.sourceChanged();
     }, { signal });
     // the popup edits assumptions (and another tab may add marks): follow the stored case
+    let storedReads = 0;
     const onStored = (changes: Record<string, { newValue?: unknown }>, area: string) => {
       if (area !== 'local' || !this.caseId) return;
       const change = changes[caseKey(this.caseId)];
       if (!change?.newValue) return;
-      try {
-        this.adopt(validateCase(change.newValue));
-      } catch {
-        // a record that fails validation is not shown; the background reports it
-      }
+      // the stored value is read back through the background, which migrates and validates every
+      // read (and quarantines a record that fails): the overlay need not carry the validator
+      const id = this.caseId;
+      // replies may arrive out of order: only the latest read is taken
+      const mine = ++storedReads;
+      send('case/get', { caseId: id }).then(
+        (c) => {
+          if (c && id === this.caseId && mine === storedReads) this.adopt(c);
+        },
+        () => undefined,
+      );
     };
     const storage = nativeApis().storage;
     storage.onChanged.addListener(onStored);
@@ -269,7 +276,7 @@ export class MeasureSession {
       if (local) c = { ...c, marks: c.marks.some((m) => m.id === local.id) ? c.marks.map((m) => (m.id === local.id ? local : m)) : [...c.marks, local] };
     }
     this.record = c;
-    this.assumptions = engineAssumptions(c.assumptions);
+    this.assumptions = engineAssumptions(c.assumptions, c.marks);
     // a case whose size is a length (chosen in the popup) marks lengths, until the user says otherwise
     const assumed = assumedDimension(c.assumptions);
     if (!this.dimensionPicked && assumed && assumed !== this.dimension) this.showDimension(assumed);
@@ -628,6 +635,7 @@ export class MeasureSession {
       points,
       edgeSigmaPx: oneSigma(sigmas),
       ...(d.kind === 'object-span' ? { dimension: this.dimension } : {}),
+      ...(d.kind === 'landmark-span' ? { landmarkDimension: landmarkDimensionOf(points) } : {}),
       mapping: this.mappingRecord(),
       // who marked it, when the user gave a name in the settings (no account: just the name)
       ...(this.markerName ? { by: this.markerName } : {}),
@@ -768,7 +776,7 @@ export class MeasureSession {
     const here = marksAt(this.record.marks, t);
     const frame = cameraFrame(this.record.marks, this.video.videoWidth, this.video.videoHeight);
     for (const mark of this.record.marks) {
-      const current = here.includes(mark) || mark.kind === 'frame-edges';
+      const current = here.includes(mark) || mark.kind === 'frame-edges' || mark.kind === 'frame-top-bottom';
       this.drawMark(mark.kind, mark.points, m, r, current ? 1 : 0.25, mark.id);
     }
     if (this.draft) this.drawMark(this.draft.kind, this.draft.points, m, r, 1, 'draft');
@@ -785,6 +793,13 @@ export class MeasureSession {
     const local = points.map((p) => this.toLocal(p, m, r));
     if (kind === 'frame-edges') {
       for (const p of local) g.append(svg('line', { x1: p.x, y1: 0, x2: p.x, y2: r.height, stroke: colour, 'stroke-width': 2, 'stroke-dasharray': '6 4' }));
+    } else if (kind === 'frame-top-bottom') {
+      for (const p of local) g.append(svg('line', { x1: 0, y1: p.y, x2: r.width, y2: p.y, stroke: colour, 'stroke-width': 2, 'stroke-dasharray': '6 4' }));
+    } else if (kind === 'horizon' && local.length === 2) {
+      // drawn across the whole picture: a horizon is a line, not a span
+      const [a, b] = local as [{ x: number; y: number }, { x: number; y: number }];
+      const k = b.x !== a.x ? (b.y - a.y) / (b.x - a.x) : 0;
+      g.append(svg('line', { x1: 0, y1: a.y - k * a.x, x2: r.width, y2: a.y + k * (r.width - a.x), stroke: colour, 'stroke-width': 2, 'stroke-dasharray': '10 4' }));
     } else if (local.length === 2) {
       const [a, b] = local as [{ x: number; y: number }, { x: number; y: number }];
       g.append(svg('line', { x1: a.x, y1: a.y, x2: b.x, y2: b.y, stroke: '#000', 'stroke-width': 4, 'stroke-opacity': 0.5 }));
@@ -798,9 +813,11 @@ export class MeasureSession {
   }
 
   private updateReadout(here: Mark[], frame: ReturnType<typeof cameraFrame>): void {
-    const a = this.assumptions;
     const draftSpan = this.draft && this.draft.kind === 'object-span' && this.draft.points.length === 2 ? this.draft : null;
     const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: this.handSigma(draftSpan.points, false) } : here.find((x) => x.kind === 'object-span');
+    // the default size follows the dimension this span is marked as (assumptions.ts sizeForMarks)
+    const spanDimension = draftSpan ? this.dimension : (obj as Mark | undefined)?.dimension;
+    const a = spanDimension ? engineAssumptions(this.record?.assumptions, [{ kind: 'object-span', dimension: spanDimension } as Mark]) : this.assumptions;
     const noteText = here.map((x) => this.snapNotes.get(x.id)).find((x) => x);
     const note = noteText ? [h('div', { class: 'notice', 'data-testid': 'snap-note' }, noteText)] : [];
     const lm = here.find((x) => x.kind === 'landmark-span') ?? null;
@@ -820,10 +837,10 @@ export class MeasureSession {
       h('div', { class: 'big', 'data-testid': 'range' }, message('ovlRange', distanceEstimate(f.result.range, this.system))),
       h('div', {}, message('ovlSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize)])),
     ];
-    if (f.result.landmarkRange) lines.push(h('div', {}, message('ovlLandmarkRange', distanceEstimate(f.result.landmarkRange, this.system))));
+    const lr = f.result.landmarkHorizontalRange ?? f.result.landmarkRange;
+    if (lr) lines.push(h('div', {}, message('ovlLandmarkRange', distanceEstimate(lr, this.system))));
     if (f.result.impliedSpeed) lines.push(h('div', {}, message('ovlImpliedSpeed', speedEstimate(f.result.impliedSpeed, this.system))));
-    const marked = draftSpan ? this.dimension : (obj as Mark).dimension;
-    const mismatch = this.sizeMismatch(marked);
+    const mismatch = this.sizeMismatch(spanDimension);
     if (mismatch) lines.push(h('div', { class: 'notice', 'data-testid': 'dimension-mismatch' }, mismatch));
     lines.push(...note);
     const broadside = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9;

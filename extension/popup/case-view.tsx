@@ -1,28 +1,18 @@
 import { useMemo, useState } from 'preact/hooks';
-import { analyseCase, type CaseAnalysis, type SpeedReading } from '../../src/case/analysis';
+import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
+import { Results } from './results';
 import { defaultAssumptions } from '../../src/case/assumptions';
 import { parseBand } from '../../src/case/bands';
 import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
 import { LANE_CYCLES } from '../../src/engine/lanes';
-import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
-import type { Estimate } from '../../src/engine/stats';
-import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
-import { rangePlot } from '../../src/case/plots';
+import { formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
 import { summaryText, type SummaryFormat } from '../../src/case/summary';
 import { toCaseFile } from '../../src/case/casefile';
 import { extensionVersion, message, send } from '../shared/browser';
-import { RangePlotView } from './range-plot';
 import { CameraPicker, DirectionPicker, MountPicker, SizePicker } from './pickers';
-import { PlanViewSvg } from './plan-view';
 import { commitsOnLeave, describedBy, FormField, valueOf } from '../shared/form-field';
 
 const DEG = Math.PI / 180;
-
-/** mm:ss.sss and seconds, as the summary will show a timestamp. */
-function stamp(t: number): string {
-  const m = Math.floor(t / 60);
-  return `${m}:${(t - 60 * m).toFixed(3).padStart(6, '0')} (${t.toFixed(3)} s)`;
-}
 
 type StoredRange = { lo: number; hi: number };
 
@@ -41,9 +31,13 @@ interface FieldDef {
   set: (a: CaseAssumptions, r: StoredRange | undefined) => CaseAssumptions;
   /** Shown in km/h when stored in m/s. */
   speed?: boolean;
+  /** What holds while the field is at its default: said under it, so nobody takes a default for a measurement. */
+  byDefault?: string;
 }
 
-const direct = (key: 'hfovDeg' | 'objectSizeM' | 'aspectDeg' | 'landmarkSizeM' | 'observerSpeedMs' | 'headwindMs') => ({
+type DirectKey = 'hfovDeg' | 'objectSizeM' | 'aspectDeg' | 'landmarkSizeM' | 'observerSpeedMs' | 'headwindMs' | 'trackAngleDeg' | 'cameraHeightM' | 'elevationDeg' | 'landmarkAspectDeg';
+
+const direct = (key: DirectKey) => ({
   key,
   get: (a: CaseAssumptions) => a[key],
   set: (a: CaseAssumptions, r: StoredRange | undefined) => {
@@ -61,7 +55,14 @@ const FIELDS: FieldDef[] = [
   { ...direct('landmarkSizeM'), label: message('caseLandmarkSizeLabel'), kind: 'length', unit: 'm', hint: message('caseLandmarkSizeHint'), min: 0.001, max: 1000 },
   { ...direct('observerSpeedMs'), label: message('caseObserverSpeedLabel'), kind: 'speed', unit: 'km/h', optional: true, speed: true, hint: message('caseObserverSpeedHint'), min: 0, max: 1000 },
   { ...direct('headwindMs'), label: message('caseWindLabel'), kind: 'speed', unit: 'km/h', optional: true, speed: true, hint: message('caseWindHint'), min: -60, max: 60 },
+  { ...direct('trackAngleDeg'), label: message('caseTrackAngleLabel'), kind: 'angle', unit: 'deg', optional: true, hint: message('caseTrackAngleHint'), min: -80, max: 80, byDefault: message('caseTrackAngleDefault') },
+  { ...direct('cameraHeightM'), label: message('caseCameraHeightLabel'), kind: 'length', unit: 'm', optional: true, hint: message('caseCameraHeightHint'), min: 0, max: 1000, byDefault: message('caseCameraHeightDefault') },
+  { ...direct('elevationDeg'), label: message('caseElevationLabel'), kind: 'angle', unit: 'deg', optional: true, hint: message('caseElevationHint'), min: -30, max: 85, byDefault: message('caseElevationDefault') },
+  { ...direct('landmarkAspectDeg'), label: message('caseLandmarkAspectLabel'), kind: 'angle', unit: 'deg', optional: true, hint: message('caseLandmarkAspectHint'), min: 0.01, max: 179.99, byDefault: message('caseLandmarkAspectDefault') },
 ];
+
+/** A fixed camera's aim when none is measured or given: anywhere ahead, and said to be the default. */
+export const DEFAULT_AIM_DEG = { lo: -90, hi: 90 } as const;
 
 /** The camera's aim, shown once the camera is said to be fixed. */
 const AIM_FIELD: FieldDef = {
@@ -74,7 +75,61 @@ const AIM_FIELD: FieldDef = {
   max: 180,
   get: (a) => a.fixedCamera?.axisHeadingDeg,
   set: (a, r) => (a.fixedCamera && r ? { ...a, fixedCamera: { ...a.fixedCamera, axisHeadingDeg: r } } : a),
+  byDefault: message('caseAimDefault'),
 };
+
+/** The fixed camera's pitch; a marked horizon measures it instead. */
+const PITCH_FIELD: FieldDef = {
+  key: 'pitchDeg',
+  label: message('casePitchLabel'),
+  kind: 'angle',
+  unit: 'deg',
+  optional: true,
+  hint: message('casePitchHint'),
+  min: -89,
+  max: 89,
+  get: (a) => a.fixedCamera?.pitchDeg,
+  set: (a, r) => {
+    if (!a.fixedCamera) return a;
+    const fixedCamera = { ...a.fixedCamera };
+    if (r) fixedCamera.pitchDeg = r;
+    else delete fixedCamera.pitchDeg;
+    return { ...a, fixedCamera };
+  },
+  byDefault: message('casePitchDefault'),
+};
+
+/** The size of one named landmark, by the id its marks carry. */
+function landmarkSizeField(id: string): FieldDef {
+  return {
+    key: `landmark-${id}`,
+    label: message('caseLandmarkIdSizeLabel', id),
+    kind: 'length',
+    unit: 'm',
+    optional: true,
+    hint: message('caseLandmarkSizeHint'),
+    min: 0.001,
+    max: 1000,
+    get: (a) => a.landmarkSizes?.find((l) => l.id === id)?.sizeM,
+    set: (a, r) => {
+      const rest = (a.landmarkSizes ?? []).filter((l) => l.id !== id);
+      const sizes = r ? [...rest, { id, sizeM: r }] : rest;
+      const next: CaseAssumptions = { ...a, landmarkSizes: sizes };
+      if (sizes.length === 0) delete next.landmarkSizes;
+      return next;
+    },
+  };
+}
+
+/** Said under a field at its default: what holds, or that the value is the tool's own. */
+function defaultNote(f: FieldDef, a: CaseAssumptions): string | null {
+  const r = f.get(a);
+  if (!r) return f.byDefault ?? null;
+  if (f.key === 'axisHeadingDeg' && r.lo === DEFAULT_AIM_DEG.lo && r.hi === DEFAULT_AIM_DEG.hi) return f.byDefault ?? null;
+  const d = f.get(defaultAssumptions());
+  return d && d.lo === r.lo && d.hi === r.hi ? message('caseIsDefault') : null;
+}
+
 
 function shown(a: CaseAssumptions, f: FieldDef): string {
   const r = f.get(a);
@@ -93,7 +148,7 @@ function allowedText(f: FieldDef): string {
 }
 
 /** One assumption: typed with units; a wrong entry is marked here and the last valid one stays. */
-function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (next: CaseAssumptions) => void }) {
+function Field({ f, a, onSave, measured }: { f: FieldDef; a: CaseAssumptions; onSave: (next: CaseAssumptions) => void; measured?: string | undefined }) {
   const [text, setText] = useState(shown(a, f));
   const [error, setError] = useState<string | null>(null);
   const id = `field-${f.key}`;
@@ -123,14 +178,16 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
       setError((e as Error).message);
     }
   };
+  // a value the marks measure says so: a typed one would not be used
+  const note = measured ?? defaultNote(f, a);
   return (
-    <FormField id={id} label={f.label} error={error}>
+    <FormField id={id} label={f.label} error={error} hint={note ? <span data-testid={`default-${f.key}`}>{note}</span> : null}>
       <input
         id={id}
         data-testid={id}
         value={text}
         placeholder={f.hint}
-        {...describedBy(id, error)}
+        {...describedBy(id, error, !!note)}
         onInput={(e) => setText(valueOf(e))}
         {...commitsOnLeave(commit)}
       />
@@ -138,119 +195,9 @@ function Field({ f, a, onSave }: { f: FieldDef; a: CaseAssumptions; onSave: (nex
   );
 }
 
-const READING_LABELS: Readonly<Record<SpeedReading['basis'], string>> = {
-  landmark: message('caseReadingLandmark'),
-  track: message('caseReadingTrack'),
-  'fit-opposite': message('caseReadingOpposite'),
-  'fit-same-slower': message('caseReadingSameSlower'),
-  'fit-same-faster': message('caseReadingSameFaster'),
-};
-
-/** A fraction as a percentage with its interval. */
-function pctEstimate(e: Estimate): string {
-  const p = (x: number) => (100 * x).toFixed(0);
-  return message('casePercentEstimate', [p(e.median), p(e.p05), p(e.p95)]);
-}
-
-function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
-  const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, system);
-  const plot = useMemo(() => rangePlot(r), [r]);
-  return (
-    <section aria-label={message('caseResultsLabel')} data-testid="results">
-      <h2>{message('caseFiguresHeading')}</h2>
-      {r.timestamps.length === 0 && <p class="muted">{message('caseMarkToSee')}</p>}
-      {r.timestamps.map((ts) => (
-        <div class="result" data-testid="timestamp">
-          <div class="stamp">{stamp(ts.t)}</div>
-          <div>{message('caseSpan', [ts.spanPx.toFixed(1), est(ts.result.angularSize, 'angle')])}</div>
-          <div class="big" data-testid="range">
-            {message('caseRange', est(ts.result.range, 'distance'))}
-          </div>
-          {ts.result.landmarkRange && <div>{message('caseLandmarkRange', est(ts.result.landmarkRange, 'distance'))}</div>}
-          {ts.result.fixedPointFraction && ts.regime && (
-            <div data-testid="fixed-point-text">
-              {ts.result.regimeShares
-                ? message('caseFixedPointDraws', [pctEstimate(ts.result.fixedPointFraction), ts.regime, (100 * ts.result.regimeShares[ts.regime]).toFixed(0)])
-                : message('caseFixedPoint', [pctEstimate(ts.result.fixedPointFraction), ts.regime])}
-              {ts.result.fixedPointDistance && message('caseFixedPointFrom', est(ts.result.fixedPointDistance, 'distance'))}
-            </div>
-          )}
-          {ts.result.impliedSpeed && (
-            <div data-testid="implied-speed">
-              {message(
-                ts.result.impliedSpeed.p95 < 0 ? 'caseImpliedSpeedOpposite' : ts.result.impliedSpeed.p05 > 0 ? 'caseImpliedSpeedSame' : 'caseImpliedSpeed',
-                est(ts.result.impliedSpeed, 'speed'),
-              )}
-            </div>
-          )}
-        </div>
-      ))}
-      {plot && <RangePlotView p={plot} system={system} />}
-      <PlanViewSvg r={r} system={system} />
-      {r.series ? (
-        <div class="result" data-testid="series">
-          <div class="stamp">{message('caseRangeOverTime')}</div>
-          <div>{message('caseClosestApproach', est(r.series.closestApproach, 'distance'))}</div>
-          <div>{message('caseRelativeSpeed', est(r.series.relativeSpeed, 'speed'))}</div>
-          {r.readings
-            .filter((x) => x.basis.startsWith('fit-'))
-            .map((x) => (
-              <div data-testid="fit-reading">
-                {READING_LABELS[x.basis]} {est(x.speed, 'speed')}
-              </div>
-            ))}
-          {r.window && (
-            <div data-testid="window">
-              {r.window.clipLength !== null
-                ? message('caseWindowClip', [formatQuantity(r.window.halfAngle, 'angle', system), est(r.window.estimate, 'time'), formatQuantity(r.window.clipLength, 'time', system)])
-                : message('caseWindow', [formatQuantity(r.window.halfAngle, 'angle', system), est(r.window.estimate, 'time')])}
-            </div>
-          )}
-        </div>
-      ) : (
-        <p class="muted">{r.seriesMissing}</p>
-      )}
-      {r.track ? (
-        <div class="result" data-testid="track">
-          <div class="stamp">{message('caseTrackHeading')}</div>
-          <div class="big">{message('caseGroundSpeed', est(r.track.speed, 'speed'))}</div>
-          <div>{message('caseHeading', est(r.track.heading, 'angle'))}</div>
-          <div>{message('caseTrackClosest', est(r.track.closestApproach, 'distance'))}</div>
-        </div>
-      ) : (
-        <p class="muted" data-testid="track-missing">{r.trackMissing}</p>
-      )}
-      {r.verdicts.length > 0 ? (
-        r.verdicts.map((j) => (
-          <div class="result verdict" data-testid="verdict">
-            <div class="big">{VERDICT_SENTENCES[j.verdict.level]}</div>
-            <div>
-              {r.assumptions.headwind
-                ? message('caseJudgedWind', [READING_LABELS[j.reading.basis].toLowerCase(), est(j.reading.speed, 'speed'), est(j.airspeed, 'speed')])
-                : message('caseJudged', [READING_LABELS[j.reading.basis].toLowerCase(), est(j.reading.speed, 'speed')])}
-            </div>
-            <div class="muted">
-              {j.verdict.rule.text} ({j.verdict.rule.source})
-            </div>
-            {j.verdict.hover && (
-              <div>
-                {message('caseHover', [
-                  formatQuantity(j.verdict.hover.headwindNeededMs, 'speed', system),
-                  String(j.verdict.hover.beaufort.force),
-                  j.verdict.hover.beaufort.description,
-                ])}
-              </div>
-            )}
-          </div>
-        ))
-      ) : (
-        <p class="muted">{r.verdictMissing}</p>
-      )}
-      {r.problems.map((p) => (
-        <p class="error">{p}</p>
-      ))}
-    </section>
-  );
+/** The ids the case's landmark marks carry, each once, in the order first marked. */
+function landmarkIds(c: CaseRecord): string[] {
+  return [...new Set(c.marks.filter((m) => m.kind === 'landmark-span' && m.landmarkId).map((m) => m.landmarkId!))];
 }
 
 /** The dimension the object's spans were marked as (the latest span's), for the size classes offered. */
@@ -335,7 +282,16 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
         ))}
         <DirectionPicker a={a} onSave={save} />
         <MountPicker a={a} onSave={save} />
-        {a.fixedCamera && <Field key={`${c.id}-aim-${JSON.stringify(AIM_FIELD.get(a) ?? null)}`} f={AIM_FIELD} a={a} onSave={save} />}
+        {a.fixedCamera && (
+          <Field key={`${c.id}-aim-${JSON.stringify(AIM_FIELD.get(a) ?? null)}`} f={AIM_FIELD} a={a} onSave={save} measured={c.marks.some((m) => m.kind === 'road-ahead') ? message('caseAimMeasured') : undefined} />
+        )}
+        {a.fixedCamera && (
+          <Field key={`${c.id}-pitch-${JSON.stringify(PITCH_FIELD.get(a) ?? null)}`} f={PITCH_FIELD} a={a} onSave={save} measured={c.marks.some((m) => m.kind === 'horizon') ? message('casePitchMeasured') : undefined} />
+        )}
+        {landmarkIds(c).map((id) => {
+          const f = landmarkSizeField(id);
+          return <Field key={`${c.id}-${f.key}-${JSON.stringify(f.get(a) ?? null)}`} f={f} a={a} onSave={save} />;
+        })}
         <FormField id="field-lanes" label={message('caseLanesLabel')}>
           <select
             id="field-lanes"

@@ -156,6 +156,8 @@ export function DirectionPicker({ a, onSave }: { a: CaseAssumptions; onSave: Sav
         <option value="unknown">{message('pickDirectionUnknown')}</option>
         <option value="opposite">{message('pickDirectionOpposite')}</option>
         <option value="same">{message('pickDirectionSame')}</option>
+        <option value="same-slower">{message('pickDirectionSameSlower')}</option>
+        <option value="same-faster">{message('pickDirectionSameFaster')}</option>
       </select>
     </FormField>
   );
@@ -172,7 +174,8 @@ export function MountPicker({ a, onSave }: { a: CaseAssumptions; onSave: Save })
         onChange={(e) => {
           const v = valueOf(e);
           const next = { ...a };
-          if (v === 'tripod' || v === 'vehicle') next.fixedCamera = { mount: v, axisHeadingDeg: a.fixedCamera?.axisHeadingDeg ?? { lo: -5, hi: 5 } };
+          // the aim starts as anywhere ahead, shown as the default until the road ahead is marked or an aim given
+          if (v === 'tripod' || v === 'vehicle') next.fixedCamera = { ...a.fixedCamera, mount: v, axisHeadingDeg: a.fixedCamera?.axisHeadingDeg ?? { lo: -90, hi: 90 } };
           else delete next.fixedCamera;
           onSave(next);
         }}

@@ -19,8 +19,8 @@ const LABELS: Record<PlanView['direction'], string> = {
  * track, a sight line per timestamp, and the motionless point they all pass through.
  */
 export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
-  // the fit's readings the direction assumed leaves open (analysis.ts speedReadings), in its order
-  const readings = r.readings.filter((x) => x.basis.startsWith('fit-')).map((x) => x.basis.slice(4) as PlanView['direction']);
+  // the pass's readings the marks and the direction assumed leave open (analysis.ts), in its order
+  const readings = [...new Set(r.readings.filter((x) => x.pass).map((x) => x.pass!.direction))];
   const [chosen, setDirection] = useState<PlanView['direction'] | undefined>(undefined);
   const direction = chosen && readings.includes(chosen) ? chosen : readings[0];
   const p = useMemo(() => planView(r, direction), [r, direction]);

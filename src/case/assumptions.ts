@@ -1,5 +1,4 @@
-import { profileById, profileHfovRad } from '../engine/profiles';
-import { sizeBandForLetter } from '../engine/size';
+import { CODE_LETTER_C, DEFAULT_CAMERA } from './defaults';
 import type { Band } from '../engine/uncertainty';
 import type { CaseAssumptions, Mark } from './schema';
 
@@ -9,23 +8,20 @@ const DEG = Math.PI / 180;
  * What a case assumes until the user says otherwise: a phone main camera filming landscape video
  * with stabilisation (a profile of generic classes, common practice), and a transport jet of
  * aerodrome code letter C (wingspan 24 to < 36 m, ICAO Annex 14 Vol I Table 1-1), seen broadside.
- * Every figure shown names these, so nobody takes a default for a measurement.
+ * Every figure shown names these, so nobody takes a default for a measurement. A new case made
+ * with the user's settings takes their camera class (case-settings.ts assumptionsFromSettings).
  */
-export function defaultAssumptions(settings?: { cameraProfile: string; observerSpeedMs?: { lo: number; hi: number } }): CaseAssumptions {
-  const profile = profileById(settings?.cameraProfile ?? 'phone-main-landscape-stabilised');
-  const hf = profileHfovRad(profile);
-  const span = sizeBandForLetter('C', 'wingspan');
+export function defaultAssumptions(): CaseAssumptions {
   return {
-    cameraLabel: profile.label,
-    hfovDeg: { lo: hf.lo / DEG, hi: hf.hi / DEG },
+    cameraLabel: DEFAULT_CAMERA.label,
+    hfovDeg: { ...DEFAULT_CAMERA.hfovDeg },
     sizeLabel: DEFAULT_SIZE_LABEL.wingspan,
-    objectSizeM: { lo: span.lo, hi: span.hi },
+    objectSizeM: { ...CODE_LETTER_C.wingspan },
     sizeDimension: 'wingspan',
     aspectDeg: { lo: 90, hi: 90 },
     // a mast, tree or house the object seems pinned over (common practice)
     landmarkSizeM: { lo: 8, hi: 30 },
     objectKind: 'fixed-wing-transport',
-    ...(settings?.observerSpeedMs ? { observerSpeedMs: { ...settings.observerSpeedMs } } : {}),
   };
 }
 
@@ -42,14 +38,13 @@ const DEFAULT_SIZE_LABEL = {
  */
 export function sizeForMarks(a: CaseAssumptions, marked: 'wingspan' | 'length' | null): Pick<CaseAssumptions, 'sizeLabel' | 'objectSizeM' | 'sizeDimension'> {
   if (!marked || !isDefaultSize(a) || a.sizeDimension === marked) return { sizeLabel: a.sizeLabel, objectSizeM: a.objectSizeM, ...(a.sizeDimension ? { sizeDimension: a.sizeDimension } : {}) };
-  const band = sizeBandForLetter('C', marked);
-  return { sizeLabel: DEFAULT_SIZE_LABEL[marked], objectSizeM: { lo: band.lo, hi: band.hi }, sizeDimension: marked };
+  return { sizeLabel: DEFAULT_SIZE_LABEL[marked], objectSizeM: { ...CODE_LETTER_C[marked] }, sizeDimension: marked };
 }
 
 /** True when the size is the tool's default (by wingspan or by length), not one the user chose. */
 export function isDefaultSize(a: CaseAssumptions): boolean {
   return (['wingspan', 'length'] as const).some((dim) => {
-    const band = sizeBandForLetter('C', dim);
+    const band = CODE_LETTER_C[dim];
     return a.sizeDimension === dim && a.sizeLabel === DEFAULT_SIZE_LABEL[dim] && a.objectSizeM.lo === band.lo && a.objectSizeM.hi === band.hi;
   });
 }

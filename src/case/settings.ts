@@ -1,4 +1,4 @@
-import { CAMERA_PROFILES } from '../engine/profiles';
+import { CAMERA_PROFILE_IDS } from './defaults';
 import type { UnitSystem } from '../engine/units';
 import type { Range } from './schema';
 
@@ -34,7 +34,7 @@ export function readSettings(raw: unknown): Settings {
   const o = raw as Partial<Settings>;
   const s: Settings = { ...DEFAULT_SETTINGS };
   if (SYSTEMS.includes(o.system as UnitSystem)) s.system = o.system as UnitSystem;
-  if (CAMERA_PROFILES.some((p) => p.id === o.cameraProfile)) s.cameraProfile = o.cameraProfile as string;
+  if (CAMERA_PROFILE_IDS.includes(o.cameraProfile as string)) s.cameraProfile = o.cameraProfile as string;
   const r = o.observerSpeedMs;
   if (r && Number.isFinite(r.lo) && Number.isFinite(r.hi) && r.lo >= 0 && r.hi >= r.lo && r.hi <= 1000) s.observerSpeedMs = { lo: r.lo, hi: r.hi };
   if (typeof o.markerName === 'string' && o.markerName.trim()) s.markerName = o.markerName.trim().slice(0, MAX_MARKER_NAME);

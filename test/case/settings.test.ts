@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { DEFAULT_SETTINGS, readSettings } from '../../src/case/settings';
-import { defaultAssumptions } from '../../src/case/assumptions';
+import { assumptionsFromSettings } from '../../src/case/case-settings';
 
 describe('settings', () => {
   it('fall back field by field to the defaults, keeping every valid stored field', () => {
@@ -19,9 +19,9 @@ describe('settings', () => {
   });
 
   it('seed new cases: camera profile and observer speed', () => {
-    const a = defaultAssumptions({ cameraProfile: 'phone-main-landscape', observerSpeedMs: { lo: 25, hi: 27 } });
+    const a = assumptionsFromSettings({ cameraProfile: 'phone-main-landscape', observerSpeedMs: { lo: 25, hi: 27 } });
     expect(a.cameraLabel).toMatch(/no stabilisation/);
     expect(a.observerSpeedMs).toEqual({ lo: 25, hi: 27 });
-    expect(() => defaultAssumptions({ cameraProfile: 'no-such-camera' })).toThrow(/camera profile/);
+    expect(() => assumptionsFromSettings({ cameraProfile: 'no-such-camera' })).toThrow(/camera profile/);
   });
 });

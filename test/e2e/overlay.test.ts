@@ -614,7 +614,7 @@ describe('marking the fixture clip', () => {
     expect(Math.abs(mark.points[0]!.x - f.object.x1)).toBeLessThan(1);
     expect(Math.abs(mark.points[1]!.x - f.object.x2)).toBeLessThan(1);
     const text = (await readout(page).locator('[data-testid=range]').textContent()) ?? '';
-    const m = /Range ([\d.]+) (k?m) \(([\d.]+)–([\d.]+) (k?m)/.exec(text);
+    const m = /Range \(slant\) ([\d.]+) (k?m) \(([\d.]+)–([\d.]+) (k?m)/.exec(text);
     expect(m, text).not.toBeNull();
     const scale = m![5] === 'km' ? 1000 : 1;
     const [lo, hi] = [Number(m![3]) * scale, Number(m![4]) * scale];

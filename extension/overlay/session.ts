@@ -1,7 +1,7 @@
 import { caseIdFor, stripFragment } from '../../src/case/ids';
 import { POINTS_PER_KIND, type CaseRecord, type Mark, type MarkKind, type Point, type VideoInfo } from '../../src/case/schema';
 import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from '../../src/engine/display';
-import { handSigmaPx, intrinsicPerCssAlong, markSigmaPx } from '../../src/engine/span-ends';
+import { handSigmaPx, intrinsicPerCssAlong, LANDMARK_SNAP_FLOOR_PX, markSigmaPx } from '../../src/engine/span-ends';
 import { caseKey } from '../../src/case/schema';
 import { message, nativeApis, send } from '../shared/native';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
@@ -626,7 +626,7 @@ export class MeasureSession {
       // snapping is an aid: if reading pixels fails, the mark is kept as placed
       const img = await this.pixels.get().catch(() => null);
       this.describeVideo();
-      if (img) ({ points, sigmas, note } = snapSpan(img, points as [Point, Point], sigmas as [number, number], 'both'));
+      if (img) ({ points, sigmas, note } = snapSpan(img, points as [Point, Point], sigmas as [number, number], 'both', d.kind === 'landmark-span' ? LANDMARK_SNAP_FLOOR_PX : undefined));
     }
     const mark: Mark = {
       id: `m${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`,
@@ -662,7 +662,7 @@ export class MeasureSession {
     // the snap must do better than a hand placement at this zoom, whatever the end claims now
     const offered: [number, number] = [sigmas[0]!, sigmas[1]!];
     offered[sel.end] = this.handSigma(points, false);
-    const s = snapSpan(img, points, offered, sel.end as 0 | 1);
+    const s = snapSpan(img, points, offered, sel.end as 0 | 1, m.kind === 'landmark-span' ? LANDMARK_SNAP_FLOOR_PX : undefined);
     const r = s.results[sel.end as 0 | 1];
     if (r.outcome === 'no-edge') {
       this.say(message('ovlNoEdge'));

@@ -16,9 +16,9 @@ export interface SnappedSpan {
  * Snaps the ends of a span that `which` names; each end arrives with the sigma it keeps if the snap
  * leaves it (the hand's floor for a new end).
  */
-export function snapSpan(img: Gray, points: readonly [Point, Point], sigmas: readonly [number, number], which: 0 | 1 | 'both'): SnappedSpan {
+export function snapSpan(img: Gray, points: readonly [Point, Point], sigmas: readonly [number, number], which: 0 | 1 | 'both', floorPx?: number): SnappedSpan {
   const [a, b] = points;
-  const results = snapSpanEnds(img, [{ ...a, sigmaPx: sigmas[0] }, { ...b, sigmaPx: sigmas[1] }], which);
+  const results = snapSpanEnds(img, [{ ...a, sigmaPx: sigmas[0] }, { ...b, sigmaPx: sigmas[1] }], which, floorPx);
   const len = Math.hypot(b.x - a.x, b.y - a.y);
   const note = results
     .map((r, end) => keptNote(end, r, len))

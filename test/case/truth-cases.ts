@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { SHARED_EDGE_SHARE } from '../../src/engine/pass-inputs';
 import { CAMERA_PROFILES } from '../../src/engine/profiles';
 import type { Rng } from '../../src/engine/rng';
 import type { CaseAssumptions, CaseRecord, Mark, Point } from '../../src/case/schema';
@@ -66,7 +67,12 @@ export function pinnedLandmark(t: Truth2): { id: string; frames: number[] } | nu
 export interface MarkOptions {
   /** the spread each mark claims, px */
   sigmaPx: number;
-  /** move every point by a normal of the claimed spread (along and across), from this generator */
+  /**
+   * move every point as a hand or a snapper would, from this generator: the ends of the object's
+   * spans by a part shared by the whole pass (half the claimed spread, outward along each span, as
+   * pass-inputs.ts SHARED_EDGE_SHARE models it) and a part of their own; every other point by a
+   * normal of the claimed spread
+   */
   jitter?: Rng;
   /** mark the landmark the object seems pinned over (default true) */
   landmark?: boolean;
@@ -78,17 +84,31 @@ const mapping = (w: number, h: number) => ({ objectFit: 'contain', objectPositio
 
 export function truthCase(t: Truth2, o: MarkOptions): CaseRecord {
   const marks: Mark[] = [];
-  const g = () => (o.jitter ? o.jitter.gauss(0, o.sigmaPx) : 0);
+  const g = (sd = o.sigmaPx) => (o.jitter ? o.jitter.gauss(0, sd) : 0);
   const moved = (p: Point): Point => ({ x: p.x + g(), y: p.y + g() });
   const add = (id: string, kind: Mark['kind'], time: number, points: Point[], extra: Partial<Mark> = {}) =>
     marks.push({ id, kind, t: time, points: points.map(moved), edgeSigmaPx: o.sigmaPx, mapping: mapping(t.video.width, t.video.height), createdAt: 1, ...extra });
+  // per end, so that the span's length takes SHARED_EDGE_SHARE of its sqrt(2) sigma from the shared part
+  const outward = g((SHARED_EDGE_SHARE * o.sigmaPx) / Math.SQRT2);
+  const own = Math.sqrt(1 - SHARED_EDGE_SHARE * SHARED_EDGE_SHARE) * o.sigmaPx;
+  /** The object's span: each end moved outward by the pass's shared part, then by its own. */
+  const addSpan = (id: string, time: number, e: Ends) => {
+    const len = Math.hypot(e.x2 - e.x1, e.y2 - e.y1);
+    const ux = (e.x2 - e.x1) / len;
+    const uy = (e.y2 - e.y1) / len;
+    const pts = [
+      { x: e.x1 - outward * ux + g(own), y: e.y1 - outward * uy + g(own) },
+      { x: e.x2 + outward * ux + g(own), y: e.y2 + outward * uy + g(own) },
+    ];
+    marks.push({ id, kind: 'object-span', t: time, points: pts, edgeSigmaPx: o.sigmaPx, dimension: 'length', mapping: mapping(t.video.width, t.video.height), createdAt: 1 });
+  };
   const pinned = o.landmark === false ? null : pinnedLandmark(t);
   const ends = (e: Ends): Point[] => [
     { x: e.x1, y: e.y1 },
     { x: e.x2, y: e.y2 },
   ];
   for (const f of t.frames) {
-    add(`o${f.index}`, 'object-span', f.t, ends(f.spans.length), { dimension: 'length' });
+    addSpan(`o${f.index}`, f.t, f.spans.length);
     const lm = pinned?.frames.includes(f.index) ? f.landmarks.find((x) => x.id === pinned.id) : undefined;
     if (lm) {
       const def = t.landmarks.find((x) => x.id === lm.id)!;

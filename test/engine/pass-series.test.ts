@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { PassScene } from '../../src/engine/pass-inputs';
+import { SHARED_EDGE_SHARE, type PassScene } from '../../src/engine/pass-inputs';
 import { Axis, type AxisCode } from '../../src/engine/pass-model';
 import { solvePass } from '../../src/engine/pass-series';
 import { Rng } from '../../src/engine/rng';
@@ -10,7 +10,8 @@ import { dirOf, pinhole, type V3 } from './pinhole';
  * The pass through its Monte Carlo, on invented passes filmed by a pinhole camera built the long way
  * (pinhole.ts): the object's ends and centre are placed in space, projected, and handed over as marks
  * would be. Figures are held against the scene's own geometry, and intervals against how often they
- * hold the truth when the marks are jittered as a user's would be.
+ * hold the truth when the marks are jittered as a user's would be (a part shared by the pass, as the
+ * snapped ends of the rendered clips show, and a part of each end's own).
  */
 
 const DEG = Math.PI / 180;
@@ -53,7 +54,10 @@ function axisVector(p: Pass, d: V3): V3 {
 /** The scene as marks give it, each end moved by N(0, jitter) along and across its span. */
 function sceneOf(p: Pass, sigma: number, jitter: number, rng: Rng | null): PassScene {
   const f = W / 2 / Math.tan(p.hfov / 2);
-  const g = () => (rng ? rng.gauss(0, jitter) : 0);
+  const g = (sd = jitter) => (rng ? rng.gauss(0, sd) : 0);
+  // each span's ends: outward by a part shared by the pass (SHARED_EDGE_SHARE of the spread), then their own
+  const outward = g((SHARED_EDGE_SHARE * jitter) / Math.SQRT2);
+  const own = Math.sqrt(1 - SHARED_EDGE_SHARE * SHARED_EDGE_SHARE) * jitter;
   const marks = p.times.map((t) => {
     const o = objectAt(p, t);
     const d = { x: o.x - p.u * t, y: o.y, z: o.z };
@@ -66,7 +70,7 @@ function sceneOf(p: Pass, sigma: number, jitter: number, rng: Rng | null): PassS
     const len = Math.hypot(b.x - a.x, b.y - a.y);
     const ux = (b.x - a.x) / len;
     const uy = (b.y - a.y) / len;
-    const [s1, c1, s2, c2] = [g(), g(), g(), g()];
+    const [s1, c1, s2, c2] = [g(own) - outward, g(own), g(own) + outward, g(own)];
     return { t, span: { x1: a.x + s1 * ux - c1 * uy, y1: a.y + s1 * uy + c1 * ux, x2: b.x + s2 * ux - c2 * uy, y2: b.y + s2 * uy + c2 * ux, edgeSigmaPx: sigma }, cam };
   });
   const horizons = p.horizon

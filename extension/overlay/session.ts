@@ -580,7 +580,7 @@ export class MeasureSession {
       const points = m.points.map((p, i) => (i === end ? { x: p.x + dx, y: p.y + dy } : p));
       // an end moved by hand is worth what the hand is, whatever a snap had claimed for it
       const sigmas = this.sigmasOf(m);
-      sigmas[end] = this.handSigma(points, false);
+      sigmas[end] = this.endSigma(m.kind, points, false);
       this.endSigmas.set(m.id, sigmas);
       this.snapNotes.delete(m.id);
       this.replaceMark({ ...m, points, edgeSigmaPx: oneSigma(sigmas) }, true);
@@ -620,7 +620,7 @@ export class MeasureSession {
     if (!d || !this.record) return;
     this.draft = null;
     let points = d.points.slice(0, POINTS_PER_KIND[d.kind]);
-    let sigmas = points.map((_, i) => this.handSigma(points, d.lens[i] ?? false));
+    let sigmas = points.map((_, i) => this.endSigma(d.kind, points, d.lens[i] ?? false));
     let note = '';
     if (points.length === 2 && (d.kind === 'object-span' || d.kind === 'landmark-span')) {
       // snapping is an aid: if reading pixels fails, the mark is kept as placed
@@ -661,7 +661,7 @@ export class MeasureSession {
     const points = m.points as [Point, Point];
     // the snap must do better than a hand placement at this zoom, whatever the end claims now
     const offered: [number, number] = [sigmas[0]!, sigmas[1]!];
-    offered[sel.end] = this.handSigma(points, false);
+    offered[sel.end] = this.endSigma(m.kind, points, false);
     const s = snapSpan(img, points, offered, sel.end as 0 | 1, m.kind === 'landmark-span' ? LANDMARK_SNAP_FLOOR_PX : undefined);
     const r = s.results[sel.end as 0 | 1];
     if (r.outcome === 'no-edge') {
@@ -685,6 +685,15 @@ export class MeasureSession {
   private sigmasOf(m: Mark): number[] {
     const own = this.endSigmas.get(m.id);
     return own && own.length === m.points.length && Math.abs(oneSigma(own) - m.edgeSigmaPx) < 1e-9 ? own.slice() : m.points.map(() => m.edgeSigmaPx);
+  }
+
+  /**
+   * The hand's floor for an end of these points at the zoom of the moment (span-ends.ts); a
+   * landmark's end is no surer placed than snapped: its foot or top is itself a poor edge.
+   */
+  private endSigma(kind: MarkKind, points: readonly Point[], lens: boolean): number {
+    const hand = this.handSigma(points, lens);
+    return kind === 'landmark-span' ? Math.max(hand, LANDMARK_SNAP_FLOOR_PX) : hand;
   }
 
   /** The hand's floor for an end of these points at the zoom of the moment (span-ends.ts). */

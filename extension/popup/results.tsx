@@ -51,6 +51,14 @@ function leadingRegime(s: PassReading['regimeShares']): keyof typeof REGIME_KEYS
   return (Object.keys(s) as (keyof typeof REGIME_KEYS)[]).reduce((a, b) => (s[b] > s[a] ? b : a));
 }
 
+/** A point that moves by more than a twentieth of its distance over the marks: a track off parallel. */
+function wanders(p: PassReading): boolean {
+  if (!p.wander) return false;
+  const a = p.wander.first.median;
+  const b = p.wander.last.median;
+  return Math.abs(a - b) > 0.05 * Math.max(Math.abs(a), Math.abs(b));
+}
+
 /** What weakens the figures, named, before the figures: a warning read after a number comes too late. */
 function Warnings({ r }: { r: CaseAnalysis }) {
   if (r.warnings.length === 0) return null;
@@ -135,6 +143,7 @@ export function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) 
                   {p.fixedPoint && regime !== 'behind' && regime !== 'none'
                     ? message('caseReadingPointRoad', [...words, est(p.fixedPoint.fromRoad, 'distance')])
                     : message('caseReadingPoint', words)}
+                  {wanders(p) && <div data-testid="wander">{message('caseWander', [est(p.wander!.first, 'distance'), est(p.wander!.last, 'distance')])}</div>}
                 </div>
               );
             })}

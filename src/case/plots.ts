@@ -173,12 +173,15 @@ function majorityRegime(s: { between: number; beyond: number; behind: number; no
 function singleFramePlan(a: CaseAnalysis, u: number): PlanView | null {
   const ts = a.timestamps.find((x) => x.result.impliedSpeed && x.result.landmarkRange);
   if (!ts) return null;
-  const R = ts.result.range.median;
-  const d = ts.result.landmarkRange!.median;
+  // on the ground: horizontal distances where the frame gives the elevation, else the slant ones, said so
+  const horizontal = !!ts.result.horizontalRange && !!ts.result.landmarkHorizontalRange;
+  const range = horizontal ? ts.result.horizontalRange! : ts.result.range;
+  const R = range.median;
+  const d = (horizontal ? ts.result.landmarkHorizontalRange! : ts.result.landmarkRange!).median;
   const w = ts.result.impliedSpeed!.median;
   const direction = w < 0 ? 'opposite' : w <= u ? 'same-slower' : 'same-faster';
-  const pad = Math.max(ts.result.range.p95, u) * 0.08;
-  const half = Math.max(R, ts.result.range.p95) * 0.6;
+  const pad = Math.max(range.p95, u) * 0.08;
+  const half = Math.max(R, range.p95) * 0.6;
   return {
     mode: 'single',
     direction,
@@ -187,8 +190,8 @@ function singleFramePlan(a: CaseAnalysis, u: number): PlanView | null {
     objectSpeed: w,
     sightLines: [{ t: ts.t, observer: { x: 0, y: 0 }, object: { x: 0, y: R } }],
     fixedPoint: { x: 0, y: d, fromRoad: d },
-    trackBand: { lo: ts.result.range.p05, hi: ts.result.range.p95 },
-    bounds: { xMin: -half, xMax: half, yMin: -pad, yMax: ts.result.range.p95 + pad },
-    description: `Plan view of the frame at ${ts.t.toFixed(2)} s, drawn abeam (one picture gives no bearing to the road): the object ${R.toFixed(0)} m away on the sight line, the landmark it seems pinned over ${d.toFixed(0)} m away (the motionless point), the object flying ${direction.replace('-', ' and ')} at ${Math.abs(w).toFixed(0)} m/s against the observer's ${u.toFixed(0)} m/s.`,
+    trackBand: { lo: range.p05, hi: range.p95 },
+    bounds: { xMin: -half, xMax: half, yMin: -pad, yMax: range.p95 + pad },
+    description: `Plan view of the frame at ${ts.t.toFixed(2)} s, drawn abeam (one picture gives no bearing to the road): the object ${R.toFixed(0)} m away on the sight line (${horizontal ? 'horizontal' : 'slant: nothing on this frame gives the elevation'}), the landmark it seems pinned over ${d.toFixed(0)} m away (the motionless point), the object flying ${direction.replace('-', ' and ')} at ${Math.abs(w).toFixed(0)} m/s against the observer's ${u.toFixed(0)} m/s.`,
   };
 }

@@ -51,7 +51,7 @@ async function shoot(page: Page, name: string, fullPage = false): Promise<void> 
 
 async function markedDemo(app: Loaded): Promise<Page> {
   const page = await app.context.newPage();
-  await page.setViewportSize({ width: 1000, height: 700 });
+  await page.setViewportSize({ width: 1000, height: 800 });
   await page.goto(server.url('/index.html'));
   await videoReady(page);
   const frame = truth.frames[Math.floor(truth.frames.length / 2)];

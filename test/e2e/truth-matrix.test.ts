@@ -166,6 +166,14 @@ describe('the truth matrix marked through the overlay, snapping on', () => {
       }
       if (t.camera.mode === 'fixed') holds(r.track?.speed, t.groundTrack.speedMs, at('ground track speed'));
       if (pinned && !t.landmarks.some((d) => d.decoy)) expect(r.setAside, 'no landmark set aside').toHaveLength(0);
+      if (t.fixedPoint.regime === 'wanders' && t.camera.mode === 'tracked') {
+        // a track 20 deg off parallel: the popup says how far the motionless point moves (issue 12, point 6)
+        const view = await app.context.newPage();
+        await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${await tabIdFor(app, page.url())}`);
+        await expect.poll(() => view.getByTestId('wander').count(), { timeout: 20_000 }).toBeGreaterThan(0);
+        expect(await view.getByTestId('wander').first().textContent()).toContain('not parallel');
+        await view.close();
+      }
       await page.close();
     }, 240_000);
   }

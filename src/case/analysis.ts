@@ -1,8 +1,6 @@
-import { laneCycleById, observerSpeedFromDashes } from '../engine/lanes';
 import type { AxisCode } from '../engine/pass-model';
 import { solvePass, type Conditioning, type PassHypothesis, type PassMarkFigures, type PassReading, type PassResult } from '../engine/pass-series';
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
-import { observationWindow } from '../engine/speed';
 import type { Estimate } from '../engine/stats';
 import { solveFrame, type FrameResult } from '../engine/frame-solve';
 import type { RegimeShares } from '../engine/uncertainty';
@@ -12,6 +10,10 @@ import { checkLandmarks, type LandmarkCheck } from './landmark-checks';
 import { allowedReadings, axisOf, fieldOfView, horizonAt, landmarkBody, LEVEL, passInputs, signsFor, type FieldOfView } from './pass-scene';
 import type { CaseRecord, Mark } from './schema';
 import { dimensionMismatch, mismatchText } from './size-match';
+import { measuredObserverSpeed, type LaneSpeed } from './lane-speed';
+import { observation, passWarnings, trackSummary } from './pass-figures';
+
+export type { LaneSpeed };
 
 /*
  * A case's figures from its marks and assumptions: what the popup shows and what the summary and
@@ -36,17 +38,6 @@ export interface TimestampFigures {
   regime: keyof RegimeShares | null;
   /** this frame's figures from the pass, the aspect taken from the fitted geometry */
   fitted: PassMarkFigures | null;
-}
-
-/** The observer's speed measured from lane-dash passes, when a cycle is chosen and passes are marked. */
-export interface LaneSpeed {
-  cycleLabel: string;
-  cycleM: number;
-  source: string;
-  passes: number;
-  t1: number;
-  t2: number;
-  speed: { lo: number; median: number; hi: number };
 }
 
 /** One reading of the object's ground speed, with what it rests on. */
@@ -336,56 +327,6 @@ function fmt(e: Estimate): string {
   return `${e.median.toFixed(1)} (5-95 %: ${e.p05.toFixed(1)} to ${e.p95.toFixed(1)})`;
 }
 
-/** What weakens the pass: a fit the marks barely settle, and an elevation nothing in the frame gives. */
-function passWarnings(s: PassSummary, a: EngineAssumptions, objects: readonly Mark[]): CaseWarning[] {
-  const out: CaseWarning[] = [];
-  const c = s.conditioning;
-  if (c.ill) {
-    const when =
-      c.settleBefore !== null && c.settleAfter !== null
-        ? ` Marks before ${Math.max(0, c.settleBefore).toFixed(1)} s or after ${c.settleAfter.toFixed(1)} s (where the span should differ by enough from its largest) would settle it.`
-        : ' Marks farther from the moment of closest approach would settle it.';
-    out.push({
-      code: 'ill-conditioned',
-      text: `The object's span changes by only ${(100 * c.spanChange).toFixed(1)} % over the marked frames, against about ${(100 * c.spanNoise).toFixed(1)} % uncertainty each: the relative speed is barely settled (its interval is ${(100 * c.relativeSpread).toFixed(0)} % of its median wide).${when}`,
-    });
-  }
-  if (s.result.elevationSources.every((x) => x === 'assumed')) {
-    out.push({
-      code: 'elevation-assumed',
-      text: a.elevation
-        ? `No horizon, landmark foot or camera pitch gives the object's elevation on the ${objects.length} marked frames: horizontal distances use the elevation assumed.`
-        : `No horizon, landmark foot or camera pitch gives the object's elevation on the ${objects.length} marked frames: horizontal distances allow any elevation from 0 to 60 deg, so they are wide. Mark the horizon on a frame with the object's ends to narrow them.`,
-    });
-  }
-  return out;
-}
-
-function trackSummary(r: PassReading, s: PassSummary): TrackSummary {
-  // the engine's headings are + to the left; the assumptions' aim, + to the right
-  const h = r.heading;
-  return { speed: r.speed, heading: { p05: -h.p95, median: -h.median, p95: -h.p05 }, closestApproach: s.closestHorizontal, residualRms: null, draws: s.draws, seed: s.seed };
-}
-
-function observation(series: PassSummary | null, field: FieldOfView, clipLength: number | null): CaseAnalysis['window'] {
-  if (!series || !(series.closestApproach.median > 0) || !(series.relativeSpeed.p05 > 0)) return null;
-  const A = (field.hfov.lo + field.hfov.hi) / 4; // half of the middle field of view
-  try {
-    return {
-      halfAngle: A,
-      estimate: {
-        // a closest approach that may be zero (a collision course) lets the window shrink to nothing
-        p05: series.closestApproach.p05 > 0 ? observationWindow(series.closestApproach.p05, series.relativeSpeed.p95, A) : 0,
-        median: observationWindow(series.closestApproach.median, series.relativeSpeed.median, A),
-        p95: observationWindow(series.closestApproach.p95, series.relativeSpeed.p05, A),
-      },
-      clipLength,
-    };
-  } catch {
-    return null;
-  }
-}
-
 /**
  * The speed through the air: ground speed plus the headwind. The wind band's ends widen the
  * interval's ends (cautious: the two are not combined as independent draws).
@@ -398,28 +339,6 @@ export function withHeadwind(ground: Estimate, headwind: { lo: number; hi: numbe
     median: Math.max(ground.median + mid, 0),
     p95: Math.max(ground.p95 + headwind.hi, 0),
   };
-}
-
-/*
- * Each lane-dash mark is the moment a dash's leading edge meets the user's reference, one per
- * dash in a row, so n passes span n - 1 cycles. A quarter of a cycle of tolerance covers placing
- * the edge on the frame nearest to it (common practice: frame steps at road speed are a few metres).
- */
-const PASS_TOLERANCE_CYCLES = 0.25;
-
-function measuredObserverSpeed(c: CaseRecord, cycleId: string | null): { speed: LaneSpeed | null; missing: string | null } {
-  const passes = c.marks.filter((m) => m.kind === 'lane-dash').sort((x, y) => x.t - y.t);
-  if (!cycleId) return { speed: null, missing: passes.length ? 'Lane-dash passes are marked: choose the road’s lane-line cycle to measure the observer’s speed from them.' : null };
-  if (passes.length < 2) return { speed: null, missing: `Measuring the observer’s speed needs 2 or more lane-dash passes (${passes.length} so far).` };
-  const cycle = laneCycleById(cycleId);
-  const t1 = passes[0]!.t;
-  const t2 = passes[passes.length - 1]!.t;
-  try {
-    const v = observerSpeedFromDashes(passes.length - 1, cycle.cycleM, t1, t2, PASS_TOLERANCE_CYCLES);
-    return { speed: { cycleLabel: cycle.label, cycleM: cycle.cycleM, source: cycle.source, passes: passes.length, t1, t2, speed: { lo: v.lo, median: v.speed, hi: v.hi } }, missing: null };
-  } catch (err) {
-    return { speed: null, missing: `No observer speed from the lane dashes: ${(err as Error).message}` };
-  }
 }
 
 /**

@@ -4,7 +4,7 @@ import { drawValues, fillDraw, NOMINAL, randomPicker, spanSigmas, type PassScene
 import { FIT_REPORT, FIT_TOLERANCE, FitOutcome, fitPass, passData, Q, startFromSpans, toPhysical, type PassData } from './pass-fit';
 import { aspectSine, closestApproach, fixedPointFractionAt, P, PASS_PARAMS, relativePosition } from './pass-model';
 import { Rng } from './rng';
-import { summarize, type Estimate } from './stats';
+import { regimeShares, shareBelow, summarize, summarizeOrNull, unwrapAround, type Estimate } from './stats';
 import { checkHfov, checkOptions, checkSpan, type SolveOptions } from './uncertainty';
 import { band, inRange } from './validate';
 
@@ -349,61 +349,6 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
 
 function focalOf(scene: PassScene): number {
   return scene.frame.widthPx / 2 / Math.tan(NOMINAL.band(scene.hfov) / 2);
-}
-
-function summarizeOrNull(a: Float64Array): Estimate | null {
-  const copy = Float64Array.from(a);
-  let finite = 0;
-  for (let i = 0; i < copy.length; i++) if (Number.isFinite(copy[i]!)) finite++;
-  return finite > 0 ? summarize(copy) : null;
-}
-
-/** Headings are angles: moved into the half-turn either side of the draws' circular mean, so an interval through 180 degrees stays whole. */
-export function unwrapAround(h: Float64Array): Float64Array {
-  let sx = 0;
-  let sy = 0;
-  for (const v of h) {
-    if (v === v) {
-      sx += Math.cos(v);
-      sy += Math.sin(v);
-    }
-  }
-  const ref = Math.atan2(sy, sx);
-  for (let i = 0; i < h.length; i++) {
-    const v = h[i]!;
-    if (v !== v) continue;
-    let d = v - ref;
-    while (d > Math.PI) d -= 2 * Math.PI;
-    while (d <= -Math.PI) d += 2 * Math.PI;
-    h[i] = ref + d;
-  }
-  return h;
-}
-
-function shareBelow(a: Float64Array, x: number): number | null {
-  let finite = 0;
-  let below = 0;
-  for (const v of a) {
-    if (!Number.isFinite(v)) continue;
-    finite++;
-    if (v < x) below++;
-  }
-  return finite > 0 ? below / finite : null;
-}
-
-function regimeShares(fr: Float64Array): PassReading['regimeShares'] {
-  let between = 0;
-  let beyond = 0;
-  let behind = 0;
-  let none = 0;
-  for (const f of fr) {
-    if (!Number.isFinite(f)) none++;
-    else if (f < 0) behind++;
-    else if (f > 1) beyond++;
-    else between++;
-  }
-  const total = fr.length || 1;
-  return { between: between / total, beyond: beyond / total, behind: behind / total, none: none / total };
 }
 
 /**

@@ -216,3 +216,63 @@ function select(a: Float64Array, left: number, right: number, k: number): number
   }
   return a[k]!;
 }
+
+/* ---- summaries over a pass's draws (pass-series.ts) ---- */
+
+/** The summary of the finite values among `a` (a copy is summarized), or null when none is finite. */
+export function summarizeOrNull(a: Float64Array): Estimate | null {
+  const copy = Float64Array.from(a);
+  let finite = 0;
+  for (let i = 0; i < copy.length; i++) if (Number.isFinite(copy[i]!)) finite++;
+  return finite > 0 ? summarize(copy) : null;
+}
+
+/** Headings are angles: moved into the half-turn either side of the draws' circular mean, so an interval through 180 degrees stays whole. */
+export function unwrapAround(h: Float64Array): Float64Array {
+  let sx = 0;
+  let sy = 0;
+  for (const v of h) {
+    if (v === v) {
+      sx += Math.cos(v);
+      sy += Math.sin(v);
+    }
+  }
+  const ref = Math.atan2(sy, sx);
+  for (let i = 0; i < h.length; i++) {
+    const v = h[i]!;
+    if (v !== v) continue;
+    let d = v - ref;
+    while (d > Math.PI) d -= 2 * Math.PI;
+    while (d <= -Math.PI) d += 2 * Math.PI;
+    h[i] = ref + d;
+  }
+  return h;
+}
+
+/** The share of finite values below x, or null when none is finite. */
+export function shareBelow(a: Float64Array, x: number): number | null {
+  let finite = 0;
+  let below = 0;
+  for (const v of a) {
+    if (!Number.isFinite(v)) continue;
+    finite++;
+    if (v < x) below++;
+  }
+  return finite > 0 ? below / finite : null;
+}
+
+/** How often the motionless point lies between, beyond, behind, or nowhere, from each draw's fraction. */
+export function regimeShares(fr: Float64Array): { between: number; beyond: number; behind: number; none: number } {
+  let between = 0;
+  let beyond = 0;
+  let behind = 0;
+  let none = 0;
+  for (const f of fr) {
+    if (!Number.isFinite(f)) none++;
+    else if (f < 0) behind++;
+    else if (f > 1) beyond++;
+    else between++;
+  }
+  const total = fr.length || 1;
+  return { between: between / total, beyond: beyond / total, behind: behind / total, none: none / total };
+}

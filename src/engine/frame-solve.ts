@@ -1,7 +1,7 @@
 import { MAX_FRAME_PX, MAX_RANGE_M, MAX_SIZE_M, MAX_SPEED_MS } from './constants';
 import { InputError } from './errors';
 import { parallelFixedPointFraction } from './fixedpoint';
-import { pitchFromKnownElevationUnchecked, rayElevation, tiltFromHorizonUnchecked, type CameraTilt } from './orientation';
+import { pitchFromKnownElevationUnchecked, rayElevationUnchecked, tiltFromCentredHorizon } from './orientation';
 import { footDistanceUnchecked } from './range';
 import { Rng } from './rng';
 import { finiteShare, summarize, type Estimate } from './stats';
@@ -222,7 +222,11 @@ function elevationSource(scene: FrameScene, footed: boolean): FrameResult['eleva
   return null;
 }
 
-/** The object's elevation per draw, from the source chosen; the object's ray is its span's mid point. */
+/**
+ * The object's elevation per draw, from the source chosen; the object's ray is its span's mid point.
+ * Column passes with scalar kernels: no object per draw (elevation from a horizon or a landmark's
+ * foot costs trigonometry for each of 20 000 draws, and an allocation there doubled the solve).
+ */
 function fillElevation(
   rng: Rng,
   scene: FrameScene,
@@ -238,29 +242,70 @@ function fillElevation(
     fillUniform(rng, scene.elevation!, out, n);
     return;
   }
-  const o = scene.object.span;
-  const X = (o.x1 + o.x2) / 2 - W / 2;
-  const Y = H / 2 - (o.y1 + o.y2) / 2;
-  const lm = scene.landmark?.span;
-  const foot = lm ? (lm.y1 > lm.y2 ? { x: lm.x1, y: lm.y1 } : { x: lm.x2, y: lm.y2 }) : null;
-  const hz = scene.horizon;
-  const midSd = o.edgeSigmaPx / Math.SQRT2;
-  for (let i = 0; i < n; i++) {
-    const f = W / 2 / tanHalf[i]!;
-    let tilt: CameraTilt;
-    if (source === 'horizon') {
-      tilt = tiltFromHorizonUnchecked(hz!.x1, hz!.y1 + rng.gauss(0, hz!.sigmaPx), hz!.x2, hz!.y2 + rng.gauss(0, hz!.sigmaPx), W, H, f);
-    } else if (source === 'landmark') {
-      const depression = Math.atan2(cameraHeight[i]!, footRange[i]!);
-      const fx = foot!.x - W / 2 + rng.gauss(0, lm!.edgeSigmaPx / Math.SQRT2);
-      const fy = H / 2 - foot!.y + rng.gauss(0, lm!.edgeSigmaPx / Math.SQRT2);
-      tilt = { pitch: pitchFromKnownElevationUnchecked(fx, fy, f, -depression), roll: 0 };
-    } else {
-      const b = scene.pitch!;
-      tilt = { pitch: b.lo === b.hi ? b.lo : b.lo + (b.hi - b.lo) * (rng.nextU32() / 4294967296), roll: 0 };
-    }
-    out[i] = rayElevation(X + rng.gauss(0, midSd), Y + rng.gauss(0, midSd), f, tilt);
+  const pitch = frameColumns.get(14, n);
+  const roll = frameColumns.get(15, n);
+  const a = frameColumns.get(16, n);
+  const b = frameColumns.get(17, n);
+  if (source === 'horizon') {
+    const hz = scene.horizon!;
+    rng.fillNormal(a, n, hz.sigmaPx);
+    rng.fillNormal(b, n, hz.sigmaPx);
+    fillHorizonTilts(hz, W, H, tanHalf, a, b, pitch, roll, n);
+  } else if (source === 'landmark') {
+    const lm = scene.landmark!.span;
+    const foot = lm.y1 > lm.y2 ? { x: lm.x1, y: lm.y1 } : { x: lm.x2, y: lm.y2 };
+    // only the foot's height in the picture moves the pitch to first order; across, it barely does
+    a.fill(0, 0, n);
+    rng.fillNormal(b, n, lm.edgeSigmaPx / Math.SQRT2);
+    fillFootPitches(foot.x - W / 2, H / 2 - foot.y, W, tanHalf, a, b, cameraHeight, footRange, pitch, n);
+    roll.fill(0, 0, n);
+  } else {
+    fillUniform(rng, scene.pitch!, pitch, n);
+    roll.fill(0, 0, n);
   }
+  // the object's mid point is not moved: its ends' errors shift it by a fraction of a pixel, a few
+  // hundredths of a degree, against the tilt's tenths
+  const o = scene.object.span;
+  a.fill(0, 0, n);
+  b.fill(0, 0, n);
+  fillRayElevations((o.x1 + o.x2) / 2 - W / 2, H / 2 - (o.y1 + o.y2) / 2, W, tanHalf, a, b, pitch, roll, out, n);
+}
+
+const tiltScratch = new Float64Array(2);
+
+function fillHorizonTilts(hz: HorizonLine, W: number, H: number, tanHalf: Float64Array, dy1: Float64Array, dy2: Float64Array, pitch: Float64Array, roll: Float64Array, n: number): void {
+  const X1 = hz.x1 - W / 2;
+  const Y1 = H / 2 - hz.y1;
+  const X2 = hz.x2 - W / 2;
+  const Y2 = H / 2 - hz.y2;
+  for (let i = 0; i < n; i++) {
+    // a point moved down the picture is moved down in Y up
+    tiltFromCentredHorizon(X1, Y1 - dy1[i]!, X2, Y2 - dy2[i]!, W / 2 / tanHalf[i]!, tiltScratch);
+    pitch[i] = tiltScratch[0]!;
+    roll[i] = tiltScratch[1]!;
+  }
+}
+
+function fillFootPitches(
+  X: number,
+  Y: number,
+  W: number,
+  tanHalf: Float64Array,
+  dx: Float64Array,
+  dy: Float64Array,
+  cameraHeight: Float64Array,
+  footRange: Float64Array,
+  pitch: Float64Array,
+  n: number,
+): void {
+  for (let i = 0; i < n; i++) {
+    const depression = Math.atan2(cameraHeight[i]!, footRange[i]!);
+    pitch[i] = pitchFromKnownElevationUnchecked(X + dx[i]!, Y - dy[i]!, W / 2 / tanHalf[i]!, -depression);
+  }
+}
+
+function fillRayElevations(X: number, Y: number, W: number, tanHalf: Float64Array, dx: Float64Array, dy: Float64Array, pitch: Float64Array, roll: Float64Array, out: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) out[i] = rayElevationUnchecked(X + dx[i]!, Y - dy[i]!, W / 2 / tanHalf[i]!, pitch[i]!, roll[i]!);
 }
 
 /* ---------------------------------------------------------------------------------------------- */

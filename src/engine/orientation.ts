@@ -57,6 +57,24 @@ export function tiltFromHorizon(
   return t;
 }
 
+/**
+ * tiltFromHorizonUnchecked writing [pitch, roll] into `out`, for Monte Carlo loops. Points are
+ * centred pixels (X right, Y up).
+ */
+export function tiltFromCentredHorizon(X1: number, Y1: number, X2: number, Y2: number, focalPx: number, out: Float64Array): void {
+  let dx = X2 - X1;
+  let dy = Y2 - Y1;
+  if (dx < 0) {
+    dx = -dx;
+    dy = -dy;
+  }
+  const len = Math.hypot(dx, dy);
+  const sr = -dy / len;
+  const cr = dx / len;
+  out[0] = Math.atan(-(sr * X1 + cr * Y1) / focalPx);
+  out[1] = Math.atan2(sr, cr);
+}
+
 export function tiltFromHorizonUnchecked(
   x1: number,
   y1: number,
@@ -84,10 +102,15 @@ export function tiltFromHorizonUnchecked(
 
 /** Elevation (rad, above the horizontal) of the ray through centred pixel (X, Y). */
 export function rayElevation(X: number, Y: number, focalPx: number, tilt: CameraTilt): number {
-  const sp = Math.sin(tilt.pitch);
-  const cp = Math.cos(tilt.pitch);
-  const sr = Math.sin(tilt.roll);
-  const cr = Math.cos(tilt.roll);
+  return rayElevationUnchecked(X, Y, focalPx, tilt.pitch, tilt.roll);
+}
+
+/** rayElevation with the tilt as two numbers: Monte Carlo loops allocate nothing per draw. */
+export function rayElevationUnchecked(X: number, Y: number, focalPx: number, pitch: number, roll: number): number {
+  const sp = Math.sin(pitch);
+  const cp = Math.cos(pitch);
+  const sr = Math.sin(roll);
+  const cr = Math.cos(roll);
   const up = X * sr * cp + Y * cr * cp + focalPx * sp;
   return Math.asin(up / Math.sqrt(X * X + Y * Y + focalPx * focalPx));
 }

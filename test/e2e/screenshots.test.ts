@@ -85,6 +85,12 @@ describe('walkthrough pictures from the demo clip', () => {
       await expect.poll(() => view.getByTestId('implied-speed').count()).toBe(1);
       await shoot(view, `popup-${scheme}`);
       if (scheme === 'light') {
+        // the figures themselves, below the assumptions: each frame, the verdict
+        const results = view.getByTestId('results');
+        await results.scrollIntoViewIfNeeded();
+        const figures = join(OUT, 'popup-results.png');
+        await results.screenshot({ path: figures });
+        expect(pngSize(figures).w).toBe(Math.round((await results.boundingBox())!.width));
         // the plan view alone: one frame with its landmark, drawn abeam
         const plan = view.locator('figure:has([data-testid=plan-view])');
         await plan.scrollIntoViewIfNeeded();

@@ -107,7 +107,7 @@ export function checkLandmarks(items: readonly LandmarkAtFrame[], direction: Eng
       if (Math.abs(drift) > allowed) {
         problems.push({
           code: 'leaves-sight-line',
-          text: `Between ${it.landmark.t.toFixed(3)} s and ${other.landmark.t.toFixed(3)} s it moves ${Math.abs(drift).toFixed(1)} px against the object (more than ${allowed.toFixed(1)} px allowed): the motionless point would stay on the object's sight line.`,
+          text: `Between ${Math.min(it.landmark.t, other.landmark.t).toFixed(3)} s and ${Math.max(it.landmark.t, other.landmark.t).toFixed(3)} s it moves ${Math.abs(drift).toFixed(1)} px against the object (more than ${allowed.toFixed(1)} px allowed): the motionless point would stay on the object's sight line.`,
         });
         break;
       }

@@ -49,6 +49,7 @@ export class MeasureSession {
   private readonly host: OverlayHost;
   private readonly pixels: FramePixels;
   private assumptions: EngineAssumptions = engineAssumptions(undefined);
+  private readonly spanAssumptions = new Map<string, EngineAssumptions>();
   /** The units chosen in the settings, followed live. */
   private system: UnitSystem = 'metric';
   /** The name the settings give for whoever marks, '' when none. */
@@ -277,6 +278,7 @@ export class MeasureSession {
     }
     this.record = c;
     this.assumptions = engineAssumptions(c.assumptions, c.marks);
+    this.spanAssumptions.clear();
     // a case whose size is a length (chosen in the popup) marks lengths, until the user says otherwise
     const assumed = assumedDimension(c.assumptions);
     if (!this.dimensionPicked && assumed && assumed !== this.dimension) this.showDimension(assumed);
@@ -821,12 +823,25 @@ export class MeasureSession {
     this.layer.append(g);
   }
 
+  /**
+   * The assumptions for a span marked as `dimension`, made once per stored case: the live readout
+   * keeps its last solve while they are the same object, and a redraw runs on every pointer move.
+   */
+  private assumptionsFor(dimension: NonNullable<Mark['dimension']>): EngineAssumptions {
+    let a = this.spanAssumptions.get(dimension);
+    if (!a) {
+      a = engineAssumptions(this.record?.assumptions, [{ kind: 'object-span', dimension } as Mark]);
+      this.spanAssumptions.set(dimension, a);
+    }
+    return a;
+  }
+
   private updateReadout(here: Mark[], frame: ReturnType<typeof cameraFrame>): void {
     const draftSpan = this.draft && this.draft.kind === 'object-span' && this.draft.points.length === 2 ? this.draft : null;
     const obj = draftSpan ? { points: draftSpan.points, edgeSigmaPx: this.handSigma(draftSpan.points, false) } : here.find((x) => x.kind === 'object-span');
     // the default size follows the dimension this span is marked as (assumptions.ts sizeForMarks)
     const spanDimension = draftSpan ? this.dimension : (obj as Mark | undefined)?.dimension;
-    const a = spanDimension ? engineAssumptions(this.record?.assumptions, [{ kind: 'object-span', dimension: spanDimension } as Mark]) : this.assumptions;
+    const a = spanDimension ? this.assumptionsFor(spanDimension) : this.assumptions;
     const noteText = here.map((x) => this.snapNotes.get(x.id)).find((x) => x);
     const note = noteText ? [h('div', { class: 'notice', 'data-testid': 'snap-note' }, noteText)] : [];
     const lm = here.find((x) => x.kind === 'landmark-span') ?? null;

@@ -58,7 +58,7 @@ export function tiltFromHorizon(
 }
 
 /**
- * tiltFromHorizonUnchecked writing [pitch, roll] into `out`, for Monte Carlo loops. Points are
+ * Pitch and roll from two horizon points into `out` ([pitch, roll]), for Monte Carlo loops. Points are
  * centred pixels (X right, Y up).
  */
 export function tiltFromCentredHorizon(X1: number, Y1: number, X2: number, Y2: number, focalPx: number, out: Float64Array): void {
@@ -86,18 +86,9 @@ export function tiltFromHorizonUnchecked(
 ): CameraTilt {
   const a = centred(x1, y1, widthPx, heightPx);
   const b = centred(x2, y2, widthPx, heightPx);
-  let dx = b.X - a.X;
-  let dy = b.Y - a.Y;
-  if (dx < 0) {
-    dx = -dx;
-    dy = -dy;
-  }
-  const len = Math.hypot(dx, dy);
-  // upward unit normal (sin r, cos r) of a line running left to right
-  const sr = -dy / len;
-  const cr = dx / len;
-  const c = sr * a.X + cr * a.Y;
-  return { pitch: Math.atan(-c / focalPx), roll: Math.atan2(sr, cr) };
+  const out = new Float64Array(2);
+  tiltFromCentredHorizon(a.X, a.Y, b.X, b.Y, focalPx, out);
+  return { pitch: out[0]!, roll: out[1]! };
 }
 
 /** Elevation (rad, above the horizontal) of the ray through centred pixel (X, Y). */

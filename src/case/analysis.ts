@@ -238,20 +238,24 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   }
 
   // landmarks, each weighed before its reading may settle anything
-  const atFrames = timestamps
+  const pinned = timestamps
     .filter((ts) => ts.landmarkMark)
-    .map((ts) => ({
+    .map((ts) => ({ ts, fit: series?.lead.landmarks.find((l) => Math.abs(l.t - ts.t) < SAME_FRAME_S) }));
+  const landmarkChecks = checkLandmarks(
+    pinned.map(({ ts, fit }) => ({
       landmark: ts.landmarkMark!,
       object: ts.objectMark,
       ...(ts.result.regimeShares ? { regimeShares: ts.result.regimeShares } : {}),
-      ...(series ? { fit: series.lead.landmarks.find((l) => Math.abs(l.t - ts.t) < SAME_FRAME_S) } : {}),
-    }));
-  const landmarkChecks = checkLandmarks(atFrames, a.direction);
+      ...(fit ? { fit } : {}),
+    })),
+    a.direction,
+  );
   const readings: SpeedReading[] = [];
   const setAside: CaseAnalysis['setAside'] = [];
-  for (const check of landmarkChecks) {
-    const ts = timestamps.find((x) => x.landmarkMark === check.mark)!;
-    const fitSpeed = series?.lead.landmarks.find((l) => Math.abs(l.t - ts.t) < SAME_FRAME_S)?.impliedSpeed ?? null;
+  for (const [i, check] of landmarkChecks.entries()) {
+    const { ts, fit } = pinned[i]!;
+    // with a pass, the landmark's reading takes each frame's range from it (its aspect from the geometry)
+    const fitSpeed = fit?.impliedSpeed ?? null;
     const signed = fitSpeed ?? ts.result.impliedSpeed;
     if (!signed) continue;
     const reading: SpeedReading = { basis: 'landmark', t: ts.t, speed: magnitude(signed) };

@@ -1,6 +1,7 @@
 import type { LandmarkFigures } from '../engine/pass-series';
 import type { RegimeShares } from '../engine/uncertainty';
 import type { EngineAssumptions } from './assumptions';
+import { allowedReadings } from './pass-scene';
 import type { Mark, Point } from './schema';
 
 /*
@@ -43,20 +44,12 @@ export function columnOffsetPx(object: Mark, landmark: Mark): number {
   return (c.x + d.x) / 2 - (a.x + b.x) / 2;
 }
 
-/** Where the user's direction puts the motionless point, in the words of the regimes. */
+/** Where each reading of the direction puts the motionless point. */
+const READING_REGIME = { opposite: 'between', 'same-slower': 'beyond', 'same-faster': 'behind' } as const;
+
+/** Where the user's direction puts the motionless point; null when it is not said. */
 function expectedRegimes(direction: EngineAssumptions['direction']): (keyof RegimeShares)[] | null {
-  switch (direction) {
-    case 'opposite':
-      return ['between'];
-    case 'same-slower':
-      return ['beyond'];
-    case 'same-faster':
-      return ['behind'];
-    case 'same':
-      return ['beyond', 'behind'];
-    default:
-      return null;
-  }
+  return direction === 'unknown' ? null : allowedReadings(direction).map((r) => READING_REGIME[r]);
 }
 
 const REGIME_WORDS: Record<keyof RegimeShares, string> = {

@@ -228,6 +228,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
   const lmRatio = new Float64Array(nl * draws).fill(Number.NaN);
   const lmSpeed = new Float64Array(nl * draws).fill(Number.NaN);
   let kept = 0;
+  const nominalScale = d0.L * focalOf(scene);
   for (let i = 0; i < draws; i++) {
     fillDraw(scene, pick, sig, d, v);
     for (let l = 0; l < nl; l++) lmRange[l * draws + i] = v.landmarkRange[l]!;
@@ -238,7 +239,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     if (!(mask & (1 << Q.eps))) q[Q.eps] = v.eps;
     if (!(mask & (1 << Q.beta))) q[Q.beta] = v.beta;
     // the size and focal length scale every range together: start the draw where they put it
-    const scale = (d.L * v.focalPx) / (d0.L * focalOf(scene));
+    const scale = (d.L * v.focalPx) / nominalScale;
     q[Q.lnRho]! += Math.log(scale);
     q[Q.lnV]! += Math.log(scale);
     q[Q.xr] = q[Q.xr]! * scale;

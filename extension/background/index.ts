@@ -18,7 +18,7 @@ import {
   undeleteCase,
   listDeleted,
 } from './cases';
-import { injectOverlay } from '../shared/call-up';
+import { injectOverlay, type CallUpOptions } from '../shared/call-up';
 import { foreignFrameOrigins, injectIntoOrigin } from './inject';
 import { routeMessages } from './router';
 
@@ -62,11 +62,26 @@ browser.runtime.onInstalled.addListener(() => {
   browser.contextMenus.create({ id: MENU_ID, title: message('menuMeasureVideo'), contexts: ['video'] });
 });
 
+/**
+ * A call-up from the keyboard or the menu has no popup to show its failure in: the toolbar button
+ * of that tab shows "!" and says why in its title, until the next call-up there.
+ */
+async function callUpFromGesture(tabId: number, options: CallUpOptions = {}): Promise<void> {
+  await browser.action.setBadgeText({ tabId, text: '' }).catch(() => undefined);
+  try {
+    await injectOverlay(tabId, options);
+    await browser.action.setTitle({ tabId, title: message('actionTitle') }).catch(() => undefined);
+  } catch (err) {
+    await browser.action.setBadgeText({ tabId, text: '!' }).catch(() => undefined);
+    await browser.action.setTitle({ tabId, title: message('callUpBadgeTitle', err instanceof Error ? err.message : String(err)) }).catch(() => undefined);
+  }
+}
+
 browser.contextMenus.onClicked.addListener((info, tab) => {
-  if (info.menuItemId === MENU_ID && tab?.id !== undefined) void injectOverlay(tab.id, { ...(info.frameId ? { frameId: info.frameId } : {}), ...(info.srcUrl ? { videoSrc: info.srcUrl } : {}) });
+  if (info.menuItemId === MENU_ID && tab?.id !== undefined) void callUpFromGesture(tab.id, { ...(info.frameId ? { frameId: info.frameId } : {}), ...(info.srcUrl ? { videoSrc: info.srcUrl } : {}) });
 });
 
 browser.commands.onCommand.addListener((command, tab) => {
-  if (command === COMMAND_ID && tab?.id !== undefined) void injectOverlay(tab.id);
+  if (command === COMMAND_ID && tab?.id !== undefined) void callUpFromGesture(tab.id);
 });
 

@@ -24,3 +24,13 @@ export function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<
 export function forceStyle(el: HTMLElement, styles: Record<string, string>): void {
   for (const [k, v] of Object.entries(styles)) el.style.setProperty(k, v, 'important');
 }
+
+/**
+ * Wraps a handler so that it runs only for events the browser made from the user's own input. The
+ * page under review can dispatch look-alike events (composed, at the host) but never trusted ones.
+ */
+export function trusted<E extends Event>(fn: (e: E) => void): (e: E) => void {
+  return (e) => {
+    if (e.isTrusted) fn(e);
+  };
+}

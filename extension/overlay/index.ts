@@ -1,6 +1,6 @@
 import { Chooser } from './chooser';
 import { MeasureSession } from './session';
-import { dropShell, takePreferredSrc } from './shell';
+import { dropShell, takePreferredSrc, type CallUpStatus } from './shell';
 import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
 
 /*
@@ -12,7 +12,11 @@ interface Registry {
   sessions: Map<HTMLVideoElement, MeasureSession>;
   chooser: Chooser | null;
   run(): void;
+  /** What this frame shows after a call-up (the call-up asks, so that drawing nothing is said). */
+  status(): CallUpStatus;
 }
+
+
 
 const KEY = Symbol.for('clip-caliper.overlay');
 const g = globalThis as unknown as Record<symbol, Registry | undefined>;
@@ -72,8 +76,42 @@ function followWhileChoosing(reg: Registry, shown: HTMLVideoElement[]): void {
   for (const root of videoContainers()) mo.observe(root, { childList: true, subtree: true });
 }
 
-const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run };
+/** Whether the page left a host of ours where the user can see it. */
+function shown(host: HTMLElement): CallUpStatus {
+  if (!host.isConnected) return 'removed';
+  const r = host.getBoundingClientRect();
+  const visible = typeof host.checkVisibility === 'function' ? host.checkVisibility({ opacityProperty: true, visibilityProperty: true }) : true;
+  return visible && r.width > 0 && r.height > 0 ? 'measuring' : 'hidden';
+}
+
+function status(this: Registry): CallUpStatus {
+  const open = [...this.sessions.values()];
+  if (open.length > 0) {
+    const states = open.map((s) => shown(s.shell.host));
+    return states.includes('measuring') ? 'measuring' : states[0]!;
+  }
+  if (this.chooser?.alive) {
+    const s = shown(this.chooser.el);
+    return s === 'measuring' ? 'choosing' : s;
+  }
+  return 'none';
+}
+
+const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run, status };
+// a registry left by an earlier build of the overlay in this world lacks what this one added
+reg.status ??= status;
 g[KEY] = reg;
 reg.run();
 // a shell the first stage drew for a video this run did not mount (the page changed meanwhile)
 dropShell();
+
+// The browser tests reach the overlay through this handle, which only the test build sets, in the
+// extension's isolated world: the page has its own globals and cannot see it, and the roots stay
+// closed in every build.
+if (import.meta.env.MODE === 'e2e') {
+  (g as unknown as Record<symbol, unknown>)[Symbol.for('clip-caliper.e2e')] = {
+    overlays: () => [...reg.sessions.values()].map((s) => ({ host: s.shell.host, root: s.shell.root, byFirstStage: s.shell.byFirstStage, ready: s.ready })),
+    chooser: () => (reg.chooser?.alive ? { host: reg.chooser.el, root: reg.chooser.root } : null),
+    status: () => reg.status(),
+  };
+}

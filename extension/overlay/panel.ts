@@ -102,3 +102,31 @@ export function addMarkLayers(surface: HTMLDivElement): MarkLayers {
   surface.after(magnifier);
   return { layer, magnifier, magCanvas };
 }
+
+/* The keys that have no button of their own, with the message naming each (key-free row). */
+const KEY_BUTTONS: readonly { key: string; label: string }[] = [
+  { key: 'Tab', label: 'ovlKeyNextEnd' },
+  { key: 'ArrowLeft', label: 'ovlKeyLeft' },
+  { key: 'ArrowRight', label: 'ovlKeyRight' },
+  { key: 'ArrowUp', label: 'ovlKeyUp' },
+  { key: 'ArrowDown', label: 'ovlKeyDown' },
+  { key: 's', label: 'ovlKeySnap' },
+  { key: 'Delete', label: 'ovlKeyDelete' },
+  { key: 'Escape', label: 'ovlKeyCancel' },
+];
+
+/**
+ * A row of buttons standing in for the keys, put in the panel just before `before`; returned by
+ * the key each one stands for.
+ */
+export function addKeyButtons(panel: HTMLElement, before: Element): Map<string, HTMLButtonElement> {
+  const row = h('div', { class: 'row keys', role: 'group', 'aria-label': message('ovlKeyButtonsLabel'), 'data-testid': 'key-buttons' });
+  const buttons = new Map<string, HTMLButtonElement>();
+  for (const { key, label } of KEY_BUTTONS) {
+    const b = h('button', { type: 'button', 'data-key': key }, message(label));
+    row.append(b);
+    buttons.set(key, b);
+  }
+  panel.insertBefore(row, before);
+  return buttons;
+}

@@ -10,14 +10,14 @@ import { engineAssumptions, type EngineAssumptions } from '../../src/case/assump
 import { cameraFrame, marksAt } from '../../src/case/frames';
 import { landmarkDimensionOf } from '../../src/case/marks';
 import { assumedDimension, disagreement, type SpanDimension } from '../../src/case/size-match';
-import { forceStyle, h, svg } from './dom';
+import { forceStyle, h, svg, trusted } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
 import { OverlayHost } from './host';
 import { snapSpan } from './snapping';
 import { FramePixels } from './pixels';
 import { liveFigures } from './readout';
-import { addMarkLayers, DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, panelParts, TOOLS } from './panel';
-import { drawShell, shellText, takeShell } from './shell';
+import { addKeyButtons, addMarkLayers, DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, panelParts, TOOLS } from './panel';
+import { drawShell, forgetShell, shellText, takeShell, type Shell } from './shell';
 import { OVERLAY_CSS } from './styles';
 import { shadowRootsAround } from './videos';
 
@@ -80,6 +80,13 @@ export class MeasureSession {
   /** The mark whose nudges wait for their debounced save. */
   private pendingId: string | null = null;
   private frameRequested = false;
+  /** Wired, placed and focused (the browser tests wait for it through the test build's handle). */
+  ready = false;
+
+  /** The host element and its closed root (for the call-up's check and the test build's handle). */
+  get shell(): Pick<Shell, 'host' | 'root' | 'byFirstStage'> {
+    return this.host.shell;
+  }
   private src = '';
 
   // elements
@@ -100,15 +107,15 @@ export class MeasureSession {
     private readonly onClosed: (s: MeasureSession) => void,
   ) {
     // the first stage may have drawn the host and panel already: this session wires those elements
-    let el = takeShell(video);
-    let parts = el?.shadowRoot ? panelParts(el.shadowRoot) : null;
-    if (!el || !parts) {
-      el?.remove();
-      el = drawShell(video, shellText(), OVERLAY_CSS);
-      parts = el?.shadowRoot ? panelParts(el.shadowRoot) : null;
-      if (!el || !parts) throw new Error('the overlay could not draw its panel on this page');
+    let shell = takeShell(video);
+    let parts = shell ? panelParts(shell.root) : null;
+    if (!shell || !parts) {
+      if (shell) forgetShell(shell);
+      shell = drawShell(video, shellText(), OVERLAY_CSS);
+      parts = shell ? panelParts(shell.root) : null;
+      if (!shell || !parts) throw new Error('the overlay could not draw its panel on this page');
     }
-    this.host = new OverlayHost(video, el);
+    this.host = new OverlayHost(shell);
     this.pixels = new FramePixels(
       video,
       () => this.currentMapping(),
@@ -125,14 +132,14 @@ export class MeasureSession {
     this.panel = parts.panel;
     const signal = this.host.signal;
     for (const [kind, b] of parts.toolButtons) {
-      b.addEventListener('click', () => this.chooseTool(kind), { signal });
+      b.addEventListener('click', trusted(() => this.chooseTool(kind)), { signal });
       this.toolButtons.set(kind, b);
     }
     for (const [value, b] of parts.dimensionButtons) {
-      b.addEventListener('click', () => this.chooseDimension(value), { signal });
+      b.addEventListener('click', trusted(() => this.chooseDimension(value)), { signal });
       this.dimensionButtons.set(value, b);
     }
-    parts.close.addEventListener('click', () => void this.close(), { signal });
+    parts.close.addEventListener('click', trusted(() => void this.close()), { signal });
     this.finishAfterFirstFrame();
   }
 
@@ -168,10 +175,11 @@ export class MeasureSession {
       this.redraw();
     };
     this.wire();
+    if (this.host.keysBlocked) this.offerKeyButtons();
     this.describeVideo();
     void this.openCase();
     this.surface.focus();
-    this.host.el.dataset.ready = '';
+    this.ready = true;
   }
 
   /* ----------------------------------------------------------------------------------------- */
@@ -179,10 +187,10 @@ export class MeasureSession {
   private wire(): void {
     const signal = this.host.signal;
     const s = this.surface;
-    s.addEventListener('pointerdown', (e) => this.pointerDown(e), { signal });
-    s.addEventListener('pointermove', (e) => this.pointerMove(e), { signal });
-    s.addEventListener('pointerup', (e) => this.pointerUp(e), { signal });
-    s.addEventListener('pointerleave', () => (this.magnifier.style.display = 'none'), { signal });
+    s.addEventListener('pointerdown', trusted((e: PointerEvent) => this.pointerDown(e)), { signal });
+    s.addEventListener('pointermove', trusted((e: PointerEvent) => this.pointerMove(e)), { signal });
+    s.addEventListener('pointerup', trusted((e: PointerEvent) => this.pointerUp(e)), { signal });
+    s.addEventListener('pointerleave', trusted(() => (this.magnifier.style.display = 'none')), { signal });
     this.host.keys = (e) => this.key(e);
     const v = this.video;
     v.addEventListener('seeked', () => this.redraw(), { signal });
@@ -302,6 +310,7 @@ export class MeasureSession {
     if (!Number.isFinite(v.duration)) notes.push(message('ovlLiveStream'));
     if (v.mediaKeys) notes.push(message('ovlEncrypted'));
     if (!this.pixels.direct) notes.push(message('ovlCrossOrigin'));
+    if (this.host.keysBlocked) notes.push(message('ovlKeysBlocked'));
     this.notice(notes.join(' '));
   }
 
@@ -462,32 +471,36 @@ export class MeasureSession {
   /* Keyboard                                                                                  */
 
   private key(e: KeyboardEvent): void {
-    // seen at the window, so e.target is the host: the element inside is first on the path
-    const target = e.composedPath()[0];
-    const onSurface = target === this.surface;
-    const tool = TOOLS.find((t) => t.key === e.key);
-    if (tool && !e.ctrlKey && !e.metaKey && !e.altKey) {
+    // seen at the window, where a closed root hides the element inside (composedPath stops at the
+    // host): the root itself says which of its elements has focus
+    const onSurface = this.host.root.activeElement === this.surface;
+    if (this.act(e.key, { ctrl: e.ctrlKey || e.metaKey, alt: e.altKey, shift: e.shiftKey }, onSurface)) e.preventDefault();
+  }
+
+  /**
+   * What a key does, by its name: typed on the keyboard, or pressed as one of the panel's key-free
+   * buttons when the page takes key presses first. Says whether it did anything.
+   */
+  private act(key: string, mods: { ctrl: boolean; alt: boolean; shift: boolean }, onSurface: boolean): boolean {
+    const tool = TOOLS.find((t) => t.key === key);
+    if (tool && !mods.ctrl && !mods.alt) {
       this.chooseTool(tool.kind);
-      e.preventDefault();
-      return;
+      return true;
     }
-    const dimension = DIMENSIONS.find((d) => d.key === e.key.toUpperCase());
-    if (dimension && !e.ctrlKey && !e.metaKey && !e.altKey) {
+    const dimension = DIMENSIONS.find((d) => d.key === key.toUpperCase());
+    if (dimension && !mods.ctrl && !mods.alt) {
       this.chooseDimension(dimension.value);
-      e.preventDefault();
-      return;
+      return true;
     }
-    const step = e.altKey ? 0.1 : e.shiftKey ? 10 : 1;
+    const step = mods.alt ? 0.1 : mods.shift ? 10 : 1;
     const arrows: Record<string, [number, number]> = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
-    const d = arrows[e.key];
+    const d = arrows[key];
     if (d && onSurface) {
-      e.preventDefault();
       this.nudge(d[0], d[1]);
-      return;
+      return true;
     }
-    switch (e.key) {
+    switch (key) {
       case 'Escape':
-        e.preventDefault();
         if (this.draft) {
           this.draft = null;
           this.say(message('ovlCancelled'));
@@ -496,36 +509,49 @@ export class MeasureSession {
           this.selected = null;
           this.redraw();
         } else void this.close();
-        return;
+        return true;
       case 'Enter':
       case ' ':
-        if (!onSurface) return;
-        e.preventDefault();
+        if (!onSurface) return false;
         this.placeAtCursor();
-        return;
+        return true;
       case 'Tab':
-        if (this.selected) {
-          e.preventDefault();
-          this.cycleSelection(e.shiftKey ? -1 : 1);
-        }
-        return;
+        if (!this.selected) return false;
+        this.cycleSelection(mods.shift ? -1 : 1);
+        return true;
       case 'h':
       case 'H':
-        e.preventDefault();
         this.togglePanel();
-        return;
+        return true;
       case 's':
       case 'S':
-        if (!onSurface) return;
-        e.preventDefault();
+        if (!onSurface) return false;
         void this.snapSelected();
-        return;
+        return true;
       case 'Delete':
       case 'Backspace':
-        if (!onSurface) return;
-        e.preventDefault();
+        if (!onSurface) return false;
         void this.removeSelected();
-        return;
+        return true;
+    }
+    return false;
+  }
+
+  /**
+   * A page that takes key presses before the overlay (host.ts keysBlocked) would leave the tools
+   * without their keys: the panel says so and shows a button for each key that has no button yet.
+   */
+  private offerKeyButtons(): void {
+    const row = addKeyButtons(this.panel, this.readoutEl);
+    for (const [key, b] of row) {
+      b.addEventListener(
+        'click',
+        trusted((e: MouseEvent) => {
+          if (key === 'Tab') this.cycleSelection(e.shiftKey ? -1 : 1);
+          else this.act(key, { ctrl: false, alt: false, shift: e.shiftKey }, true);
+        }),
+        { signal: this.host.signal },
+      );
     }
   }
 

@@ -3,14 +3,40 @@ import { DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, TOOLS } from './panel';
 
 /*
  * The overlay's shell: the host element over a video and the panel inside its shadow root, drawn
- * without behaviour. Calling the overlay up runs drawShell in the page at once, before the rest
- * of the overlay has even been read (extension/shared/inject.ts); the session then adopts these
- * same elements and wires them (session.ts). With several videos, frames, fullscreen or an overlay
- * already up, the first stage draws nothing and the session draws the shell itself, with this
- * same function.
+ * without behaviour. Calling the overlay up runs drawShell at once, before the rest of the overlay
+ * has even been read (extension/shared/call-up.ts); the session then takes these same elements and
+ * wires them (session.ts). With several videos, frames, fullscreen or an overlay already up, the
+ * first stage draws nothing and the session draws the shell itself, with this same function.
+ *
+ * The page under review is treated as an adversary, so the shell is drawn from the extension's
+ * isolated world, never the page's: the page's patched DOM methods (attachShadow, createElement)
+ * and its timers do not reach this world. The host is a plain div (a custom element's tag could be
+ * defined by the page first and receive the host's callbacks), its shadow root is closed, and the
+ * root is handed to the session through this world's own globals (SHELLS), never found by a query
+ * the page could answer with a look-alike. What the page can still see is the host's box and its
+ * inline style: no case data.
  */
 
-export const HOST_TAG = 'clip-caliper-overlay';
+/**
+ * What a call-up left on screen in a frame: a session's panel, the chooser, or nothing, and when
+ * nothing, why: the host was taken off the page or hidden (by the page: nothing of ours does
+ * either while a session is open).
+ */
+export type CallUpStatus = 'measuring' | 'choosing' | 'removed' | 'hidden' | 'none';
+
+/** Where drawn shells wait for their session, in the isolated world's globals (the page has its own). */
+export const SHELLS = 'clip-caliper.shells';
+
+/** A drawn shell: the host, its closed root and the video it covers. */
+export interface Shell {
+  host: HTMLElement;
+  root: ShadowRoot;
+  video: HTMLVideoElement;
+  /** Drawn by a first stage, not yet taken by a session. */
+  waiting: boolean;
+  /** Drawn by a first stage (ahead of the overlay proper), not by the session itself. */
+  byFirstStage: boolean;
+}
 
 /** Everything the shell shows, read from the message table by whoever calls drawShell. */
 export interface ShellText {
@@ -40,26 +66,25 @@ export function shellText(): ShellText {
 }
 
 /**
- * Draws the shell over `video` and returns its host, or with `video` null (the first stage) over
- * the only video of a page without frames, fullscreen or an overlay already up, and says whether
- * it drew.
+ * Draws the shell over `video` and returns it, or with `video` null (the first stage) over the only
+ * video of a page without frames, fullscreen or an overlay already up, and says whether it drew.
  *
- * It must stay self-contained, using nothing but its arguments and the page's globals: the
- * scripting API sends its source text into the page's own world, where calling the overlay up
- * costs the least (no extension world to create, no message table to load, so the panel is drawn
- * in a few milliseconds). It carries nothing private, only the panel's strings and stylesheet, and
- * builds with createElement, never HTML strings, which pages enforcing Trusted Types refuse. The
- * session that adopts the elements checks them again (panel.ts panelParts), so a page that
- * interfered gets a fresh shell rather than its own.
+ * It must stay self-contained, using nothing but its arguments and the frame's globals: the
+ * scripting API sends its source text into the extension's isolated world of the frame ahead of
+ * the overlay proper, so that the panel shows in a few milliseconds. It builds with createElement,
+ * never HTML strings, which pages enforcing Trusted Types refuse.
  */
 export function drawShell(video: null, text: ShellText, css: string, prefer?: string | null): boolean;
-export function drawShell(video: HTMLVideoElement, text: ShellText, css: string): HTMLElement | null;
-export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string, prefer: string | null = null): HTMLElement | boolean | null {
-  const tag = 'clip-caliper-overlay';
+export function drawShell(video: HTMLVideoElement, text: ShellText, css: string): Shell | null;
+export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: string, prefer: string | null = null): Shell | boolean | null {
+  // the key spelled out, not SHELLS: a serialized function sees nothing of this module
+  const g = globalThis as unknown as Record<symbol, Shell[] | undefined>;
+  const shells = (g[Symbol.for('clip-caliper.shells')] ??= []);
   try {
     let target = video;
     if (!target) {
-      if (document.fullscreenElement || document.querySelector(tag)) return false;
+      // an overlay already up in this frame (its shell is connected): the session focuses it
+      if (document.fullscreenElement || shells.some((s) => s.host.isConnected)) return false;
       const videos = document.getElementsByTagName('video');
       // the video the user asked for (by its source), when no other has that source
       const chosen = prefer ? [...videos].filter((v) => v.currentSrc === prefer || v.src === prefer) : [];
@@ -75,17 +100,18 @@ export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: 
       return el;
     };
     const r = target.getBoundingClientRect();
-    const host = doc.createElement(tag);
+    // a page's zoom on its root element would scale the host's box too (host.ts undoZoom)
+    const z = (doc.documentElement as HTMLElement & { currentCSSZoom?: number }).currentCSSZoom;
+    const zoom = typeof z === 'number' && z > 0 ? z : 1;
+    const host = doc.createElement('div');
     // inline and important: a page rule like `* { all: unset !important }` cannot beat them
     host.setAttribute(
       'style',
       'all:initial!important;position:fixed!important;z-index:2147483647!important;display:block!important;' +
         'margin:0!important;padding:0!important;border:0!important;inset:auto!important;overflow:visible!important;' +
-        `background:transparent!important;left:${r.left}px!important;top:${r.top}px!important;width:${r.width}px!important;height:${r.height}px!important`,
+        `background:transparent!important;left:${r.left}px!important;top:${r.top}px!important;width:${r.width}px!important;height:${r.height}px!important;zoom:${1 / zoom}!important`,
     );
-    // marks a first stage's shell for the session to take (takeShell), or to drop when none does
-    if (!video) host.setAttribute('data-shell', '');
-    const root = host.attachShadow({ mode: 'open' });
+    const root = host.attachShadow({ mode: 'closed' });
     const style = doc.createElement('style');
     style.textContent = css;
     // the mark layer and the magnifier show nothing until the session draws: it adds them (panel.ts)
@@ -112,8 +138,10 @@ export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: 
     );
     root.append(style, surface, panel);
     doc.documentElement.appendChild(host);
-    // the first stage answers whether it drew (its result leaves the page; an element cannot)
-    return video ? host : true;
+    const shell = { host, root, video: target, waiting: !video, byFirstStage: !video };
+    shells.push(shell);
+    // the first stage answers whether it drew (its result leaves the frame; an element cannot)
+    return video ? shell : true;
   } catch {
     // a page that broke the DOM's own methods: the session draws the shell after all
     return video ? null : false;
@@ -122,8 +150,10 @@ export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: 
 
 /**
  * Settles once the page has shown its next frame, or after 100 ms (a tab in the background shows
- * none). Self-contained, as drawShell: it runs in the page, after the first stage, so that the
- * panel reaches the screen before the overlay proper takes the page's main thread to load.
+ * none). Self-contained, as drawShell: it runs in the frame, after the first stage, so that the
+ * panel reaches the screen before the overlay proper takes the page's main thread to load. The
+ * isolated world's timers are its own: a page that overrides requestAnimationFrame or setTimeout
+ * changes only its own.
  */
 export function afterNextFrame(): Promise<void> {
   return new Promise((done) => {
@@ -152,14 +182,32 @@ export function takePreferredSrc(): string | null {
   return src;
 }
 
-/** The shell the first stage drew in this video's document, taken once by the session. */
-export function takeShell(video: HTMLVideoElement): HTMLElement | null {
-  const el = video.ownerDocument.querySelector<HTMLElement>(`${HOST_TAG}[data-shell]`);
-  el?.removeAttribute('data-shell');
-  return el;
+function shells(): Shell[] {
+  const g = globalThis as unknown as Record<symbol, Shell[] | undefined>;
+  return (g[Symbol.for(SHELLS)] ??= []);
 }
 
-/** Removes a shell nobody took (the page changed between the two stages). */
-export function dropShell(doc: Document = document): void {
-  for (const el of doc.querySelectorAll(`${HOST_TAG}[data-shell]`)) el.remove();
+/** The shell the first stage drew over this video, taken once by the session. */
+export function takeShell(video: HTMLVideoElement): Shell | null {
+  const s = shells().find((x) => x.waiting && x.video === video && x.host.isConnected) ?? null;
+  if (s) s.waiting = false;
+  return s;
+}
+
+/** Forgets a shell whose session ended (or that nobody took), and takes it off the page. */
+export function forgetShell(shell: Shell): void {
+  const all = shells();
+  const i = all.indexOf(shell);
+  if (i >= 0) all.splice(i, 1);
+  shell.host.remove();
+}
+
+/** Removes the shells nobody took (the page changed between the two stages). */
+export function dropShell(): void {
+  for (const s of shells().filter((x) => x.waiting)) forgetShell(s);
+}
+
+/** Every shell drawn in this frame's isolated world that is still on the page. */
+export function liveShells(): readonly Shell[] {
+  return shells().filter((s) => s.host.isConnected);
 }

@@ -1,5 +1,6 @@
 import type { Page } from 'playwright-core';
 import type { CaseAssumptions } from '../../src/case/schema';
+import { ovl } from './overlay-world';
 
 type Ends = Record<'x1' | 'y1' | 'x2' | 'y2', number>;
 
@@ -17,7 +18,7 @@ export async function markObjectAndLandmark(page: Page, object: Ends, landmark: 
     await page.mouse.move(box.x + p.x2, box.y + p.y2, { steps: 6 });
     await page.mouse.up();
   };
-  await page.locator('clip-caliper-overlay .surface').focus();
+  await ovl(page).focus('.surface');
   await page.keyboard.press('1');
   await drag(object);
   await page.keyboard.press('2');

@@ -16,6 +16,7 @@ import { analyseCase } from '../../src/case/analysis';
 import type { CaseRecord } from '../../src/case/schema';
 import { summaryText } from '../../src/case/summary';
 import { startServer } from './static-server';
+import { ovl } from './overlay-world';
 import { demoAssumptions, markObjectAndLandmark } from './demo-flow';
 
 const headless = process.argv.includes('--headless');
@@ -91,12 +92,11 @@ async function unattended(browserPath: string): Promise<number> {
     const tabId = (await ext.evaluate(`chrome.tabs.query({}).then((t) => t.find((x) => x.url === ${JSON.stringify(page.url())}).id)`)) as number;
     await page.bringToFront();
     await ask('overlay/inject', { tabId });
-    const readout = page.locator('clip-caliper-overlay [data-testid=readout]');
-    await readout.filter({ hasText: /\d+ marks? saved/ }).waitFor();
+    await ovl(page).until('[data-testid=readout]', /\d+ marks? saved/);
     console.log('Called the overlay up.');
 
     await markObjectAndLandmark(page, frame.object, mast);
-    await readout.filter({ hasText: '2 marks saved' }).waitFor();
+    await ovl(page).until('[data-testid=readout]', /2 marks saved/);
     console.log('Marked the aircraft’s wingtips and the mast at their true pixels (the ends snapped to the edges).');
 
     const cases = (await ext.evaluate(`chrome.storage.local.get(null)`)) as Record<string, CaseRecord>;

@@ -8,6 +8,7 @@ import { itemBytes } from '../../src/case/store-policy';
 import { summaryText } from '../../src/case/summary';
 import { SCHEMA_VERSION, type CaseRecord, type Mark, type VideoInfo } from '../../src/case/schema';
 import { CHROMIUM_ARGS, chromiumPath, E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, stopServiceWorker, videoReady, type Loaded } from './harness';
+import { ovl } from '../../extension/tools/overlay-world';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
@@ -73,7 +74,7 @@ describe('marks are never lost', () => {
     await videoReady(page);
     await injectOverlay(app, page.url());
     // the overlay mounts again and opens the same case (case/open keeps the marks)
-    await page.locator('clip-caliper-overlay').waitFor({ state: 'attached' });
+    await expect.poll(() => ovl(page).count()).toBe(1);
     await expect.poll(async () => (await ask<{ cases: CaseRecord[] }>('cases/forPage', { pageUrl: page.url() })).cases.map((c) => c.marks.length)).toEqual([2]);
     await page.close();
   });

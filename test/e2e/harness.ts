@@ -2,6 +2,7 @@ import { chromium, type BrowserContext, type Worker } from 'playwright-core';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { ovl } from '../../extension/tools/overlay-world';
 
 /** Where Chromium is: CHROME_PATH first, then Debian's package. */
 export function chromiumPath(): string {
@@ -171,6 +172,6 @@ export async function seek(frame: PageOrFrame, t: number): Promise<void> {
 export async function overlayReady(frame: PageOrFrame, marks?: number): Promise<void> {
   const { expect } = await import('vitest');
   await expect
-    .poll(() => frame.locator('clip-caliper-overlay [data-testid=readout]').textContent(), { timeout: 10_000 })
+    .poll(() => ovl(frame).text('[data-testid=readout]').catch(() => null), { timeout: 10_000 })
     .toMatch(marks === undefined ? /\d+ marks? saved/ : new RegExp(`\\b${marks} ${marks === 1 ? 'mark' : 'marks'} saved`));
 }

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, sendAsPopup, storedCases, videoReady, type Loaded } from './harness';
+import { ovl } from '../../extension/tools/overlay-world';
 import { HOUR, SEED_START, seedCase, seedCases, writeCases } from './log-seed';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
 import { caseKey, type CaseRecord } from '../../src/case/schema';
@@ -297,7 +298,7 @@ describe('the case log opens a case at a mark', () => {
     await videoReady(page);
     await injectOverlay(app, page.url());
     // the overlay is up; the seek follows once it has opened its case
-    await page.waitForSelector('clip-caliper-overlay[data-ready]', { state: 'attached', timeout: 10_000 });
+    await expect.poll(() => ovl(page).ready(), { timeout: 10_000 }).toBe(true);
     await expect.poll(() => page.evaluate(() => (document.querySelector('video') as HTMLVideoElement).currentTime), { timeout: 10_000 }).toBeCloseTo(1.25, 2);
     expect(await page.evaluate(() => (document.querySelector('video') as HTMLVideoElement).paused)).toBe(true);
     await page.close();

@@ -3,6 +3,7 @@ import { readFileSync } from 'node:fs';
 import type { Frame, Page } from 'playwright-core';
 import { callUpAsPopup, E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, stopServiceWorker, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
+import { chooser, inOverlayWorld, ovl } from '../../extension/tools/overlay-world';
 
 /*
  * The measuring overlay in real Chromium with the e2e build (host permission for the local test
@@ -40,8 +41,8 @@ async function open(path: string): Promise<Page> {
 
 const tabIdOf = (url: string) => tabIdFor(app, url);
 
-const overlays = (f: Page | Frame) => f.locator('clip-caliper-overlay').count();
-const readout = (f: Page | Frame) => f.locator('clip-caliper-overlay [data-testid=readout]');
+const overlays = (f: Page | Frame) => ovl(f).count();
+const readoutText = (f: Page | Frame) => ovl(f).text('[data-testid=readout]');
 
 const ready = (f: Page | Frame) => overlayReady(f);
 
@@ -58,7 +59,7 @@ async function withOverlay(path: string): Promise<Page> {
 async function measuring(path: string, tool: string): Promise<{ page: Page; box: { x: number; y: number; width: number; height: number } }> {
   const page = await withOverlay(path);
   const box = (await page.locator('video').boundingBox())!;
-  await page.locator('clip-caliper-overlay .surface').focus();
+  await ovl(page).focus('.surface');
   await page.keyboard.press(tool);
   return { page, box };
 }
@@ -86,7 +87,7 @@ describe('calling the overlay up', () => {
   it('says so on a page with no video', async () => {
     const page = await open('/novideo.html');
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-chooser [data-testid=chooser-heading]').textContent()).toContain('No video found');
+    await expect.poll(() => chooser(page).text('[data-testid=chooser-heading]')).toContain('No video found');
     expect(await overlays(page)).toBe(0);
     await page.close();
   });
@@ -96,11 +97,11 @@ describe('calling the overlay up', () => {
     await videoReady(page, '#v');
     await videoReady(page, '#w');
     await injectOverlay(app, page.url());
-    const buttons = page.locator('clip-caliper-chooser button[data-video-index]');
-    await expect.poll(() => buttons.count()).toBe(2);
-    await buttons.nth(1).click();
+    const buttons = () => chooser(page).count('button[data-video-index]');
+    await expect.poll(buttons).toBe(2);
+    await chooser(page).click('button[data-video-index="1"]');
     await expect.poll(() => overlays(page)).toBe(1);
-    const host = await page.locator('clip-caliper-overlay').boundingBox();
+    const host = await ovl(page).box();
     const video = await page.locator('#w').boundingBox();
     expect(host).not.toBeNull();
     expect(Math.abs(host!.y - video!.y)).toBeLessThan(1);
@@ -117,13 +118,13 @@ describe('calling the overlay up', () => {
     await watchHosts(page);
     await callUpAsPopup(app, await tabIdOf(page.url()), { videoSrc: src });
     await ready(page);
-    expect(await page.locator('clip-caliper-chooser').count()).toBe(0);
+    expect(await chooser(page).count()).toBe(0);
     expect(await overlays(page)).toBe(1);
-    const host = (await page.locator('clip-caliper-overlay').boundingBox())!;
+    const host = (await ovl(page).box())!;
     const video = (await page.locator('#w').boundingBox())!;
     expect(Math.abs(host.y - video.y) + Math.abs(host.height - video.height)).toBeLessThan(1);
-    // the first stage drew it at once (its shell carried data-shell until the session took it)
-    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]);
+    // the first stage drew it at once, and the session took that same host
+    expect(await callUpHosts(page)).toEqual({ added: 1, byFirstStage: [true], seenByPage: [true] });
     // and on the other video, while the first is open: a second session, one host each
     await callUpAsPopup(app, await tabIdOf(page.url()), { videoSrc: await page.locator('#v').evaluate((v: HTMLVideoElement) => v.currentSrc) });
     await expect.poll(() => overlays(page)).toBe(2);
@@ -134,13 +135,13 @@ describe('calling the overlay up', () => {
     const page = await open('/late-two.html');
     await videoReady(page, '#v');
     await injectOverlay(app, page.url());
-    const buttons = page.locator('clip-caliper-chooser button[data-video-index]');
-    await expect.poll(() => buttons.count()).toBe(2);
+    const buttons = () => chooser(page).count('button[data-video-index]');
+    await expect.poll(buttons).toBe(2);
     await page.click('#add');
-    await expect.poll(() => buttons.count()).toBe(3);
+    await expect.poll(buttons).toBe(3);
     // and when a component adds one inside its shadow root, which the document's own changes do not show
     await page.click('#add-in-component');
-    await expect.poll(() => buttons.count()).toBe(4);
+    await expect.poll(buttons).toBe(4);
     await page.close();
   });
 
@@ -156,7 +157,7 @@ describe('calling the overlay up', () => {
     const page = await open('/frame-cross.html');
     await page.waitForTimeout(300);
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-chooser .notice').textContent()).toContain(`http://localhost:${server.port}`);
+    await expect.poll(() => chooser(page).text('.notice')).toContain(`http://localhost:${server.port}`);
     await page.close();
   });
 
@@ -191,9 +192,9 @@ describe('calling the overlay up', () => {
 
   it('still allows marking a live stream, with a notice', async () => {
     const page = await withOverlay('/live.html');
-    expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('Live stream');
+    expect(await ovl(page).text('[data-testid=notice]')).toContain('Live stream');
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('5');
     await page.mouse.click(box.x + 320, box.y + 200);
     await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
@@ -208,9 +209,9 @@ describe('calling the overlay up', () => {
     expect(await page.evaluate('window.keysAttached')).toBe(true);
     await injectOverlay(app, page.url());
     await ready(page);
-    expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('Encrypted video');
+    expect(await ovl(page).text('[data-testid=notice]')).toContain('Encrypted video');
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await page.mouse.move(box.x + 200, box.y + 150);
     await page.mouse.down();
@@ -221,43 +222,46 @@ describe('calling the overlay up', () => {
     const m = (await caseFor(page.url())).marks[0]!;
     expect(m.points[0]!.x).toBeCloseTo(200, 0);
     expect(m.points[1]!.x).toBeCloseTo(260, 0);
-    expect(await page.locator('clip-caliper-overlay .magnifier').evaluate((el) => getComputedStyle(el).display)).toBe('none');
+    expect(await ovl(page).style('.magnifier', 'display')).toBe('none');
     await page.close();
   });
 
   /*
-   * Calls the overlay up as the popup's button does, noting every host element ever added and
-   * whether the first stage drew it: its shell carries data-shell until the session takes it, so
-   * the mark, seen as the host is added, tells the page's own world drew it and not the session.
+   * Calls the overlay up as the popup's button does and tells how its host came: how many elements
+   * were added to the root element meanwhile (the page's own MutationObserver sees the host, a
+   * plain div, and tags it), whether the session's host was drawn by the first stage, and whether
+   * it is the element the page saw added (the tag, read from the extension's world).
    */
-  async function callUpWatchingHosts(page: Page): Promise<boolean[]> {
+  async function callUpWatchingHosts(page: Page): Promise<{ added: number; byFirstStage: boolean[]; seenByPage: boolean[] }> {
     await watchHosts(page);
     await callUpAsPopup(app, await tabIdOf(page.url()));
     await ready(page);
-    return (await page.evaluate(`window.__byFirstStage`)) as boolean[];
+    return callUpHosts(page);
   }
 
   async function watchHosts(page: Page): Promise<void> {
     await page.evaluate(`(() => {
-      window.__hosts = [];
-      window.__byFirstStage = [];
-      window.__shownBeforeAdopted = [];
+      window.__added = 0;
       new MutationObserver((records) => {
-        for (const r of records) for (const n of r.addedNodes) if (n.nodeName === 'CLIP-CALIPER-OVERLAY') {
-          window.__hosts.push(n);
-          window.__byFirstStage.push(n.hasAttribute('data-shell'));
-          // the next frame after it appeared: is it still the first stage's, not yet the session's?
-          requestAnimationFrame(() => window.__shownBeforeAdopted.push(n.hasAttribute('data-shell')));
+        for (const r of records) for (const n of r.addedNodes) if (n.parentNode === document.documentElement && n.nodeName === 'DIV') {
+          window.__added++;
+          n.setAttribute('data-seen-by-page', '');
         }
-      }).observe(document.documentElement, { childList: true, subtree: true });
+      }).observe(document.documentElement, { childList: true });
     })()`);
+  }
+
+  async function callUpHosts(page: Page): Promise<{ added: number; byFirstStage: boolean[]; seenByPage: boolean[] }> {
+    await expect.poll(() => ovl(page).ready()).toBe(true);
+    const added = (await page.evaluate(`window.__added`)) as number;
+    const mine = await inOverlayWorld(page, (h) => h!.overlays().map((o) => ({ first: o.byFirstStage, seen: o.host.hasAttribute('data-seen-by-page') })));
+    return { added, byFirstStage: mine.map((m) => m.first), seenByPage: mine.map((m) => m.seen) };
   }
 
   /** Clicks a tool's button and reads back whether it is now the chosen one. */
   async function clickTool(page: Page, kind: string): Promise<string | null> {
-    const button = page.locator(`clip-caliper-overlay button[data-kind=${kind}]`);
-    await button.click();
-    return button.getAttribute('aria-pressed');
+    await ovl(page).click(`button[data-kind=${kind}]`);
+    return ovl(page).attr(`button[data-kind=${kind}]`, 'aria-pressed');
   }
 
   /** Runs `attempt` in the page's own world: 'refused' when it throws. */
@@ -266,12 +270,7 @@ describe('calling the overlay up', () => {
   it('the panel the first stage draws is the one the session then wires: one host, never replaced', async () => {
     const page = await open('/plain.html?two-stage');
     await videoReady(page);
-    expect(await callUpWatchingHosts(page)).toEqual([true]);
-    await expect.poll(() => page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-ready')`)).toBe(true);
-    // the page showed a frame with the first stage's panel before the overlay proper came to take it
-    expect(await page.evaluate(`window.__shownBeforeAdopted`)).toEqual([true]);
-    expect(await page.evaluate(`window.__hosts[0] === document.querySelector('clip-caliper-overlay')`)).toBe(true);
-    expect(await page.evaluate(`document.querySelector('clip-caliper-overlay').hasAttribute('data-shell')`)).toBe(false);
+    expect(await callUpWatchingHosts(page)).toEqual({ added: 1, byFirstStage: [true], seenByPage: [true] });
     // and its buttons work: the second tool, chosen by a click on the first stage's button
     expect(await clickTool(page, 'landmark-span')).toBe('true');
     await page.close();
@@ -282,7 +281,7 @@ describe('calling the overlay up', () => {
     await videoReady(page);
     // the fixture really enforces them: an HTML string from the page's world is refused
     expect(await inPageWorld(page, `document.body.insertAdjacentHTML('beforeend', '<b>x</b>')`)).toBe('refused');
-    expect(await callUpWatchingHosts(page)).toEqual([true]);
+    expect(await callUpWatchingHosts(page)).toEqual({ added: 1, byFirstStage: [true], seenByPage: [true] });
     expect(await clickTool(page, 'lane-dash')).toBe('true');
     await page.close();
   });
@@ -291,8 +290,8 @@ describe('calling the overlay up', () => {
     const page = await open('/broken-dom.html');
     await videoReady(page);
     expect(await inPageWorld(page, `document.createElement('div').attachShadow({ mode: 'open' })`)).toBe('refused');
-    // the page's world could not draw it; the overlay's own world drew it, once, and it works
-    expect(await callUpWatchingHosts(page)).toEqual([false]);
+    // the page broke its own world's methods only: the first stage, in the extension's world, drew it once, and it works
+    expect(await callUpWatchingHosts(page)).toEqual({ added: 1, byFirstStage: [true], seenByPage: [true] });
     expect(await overlays(page)).toBe(1);
     expect(await clickTool(page, 'landmark-span')).toBe('true');
     await page.close();
@@ -305,8 +304,10 @@ describe('calling the overlay up', () => {
     const tabId = await tabIdOf(page.url());
     // a file that is not in the extension: the second stage's injection fails as a real one could
     await expect(callUpAsPopup(app, tabId, { overlayFile: 'extension/overlay/not-there.js' })).rejects.toThrow(/not-there\.js/);
-    expect(await page.evaluate(`window.__byFirstStage`)).toEqual([true]); // the first stage had drawn
-    expect(await overlays(page)).toBe(0); // and nothing dead is left on the page
+    expect(await page.evaluate(`window.__added`)).toBe(1); // the first stage had drawn
+    // and nothing dead is left on the page
+    expect(await page.evaluate(`[...document.documentElement.children].filter((n) => n.hasAttribute('data-seen-by-page') && n.isConnected).length`)).toBe(0);
+    expect(await overlays(page)).toBe(0);
     await callUpAsPopup(app, tabId);
     await ready(page);
     expect(await overlays(page)).toBe(1);
@@ -319,7 +320,7 @@ describe('calling the overlay up', () => {
     await videoReady(page);
     await injectOverlay(app, page.url());
     await expect.poll(() => overlays(page)).toBe(1);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('Escape');
     await expect.poll(() => overlays(page)).toBe(0);
     await page.close();
@@ -357,7 +358,7 @@ describe('CSS pixels to intrinsic pixels', () => {
       await injectOverlay(app, page.url());
       await ready(page);
       const box = (await page.locator('video').boundingBox())!;
-      await page.locator('clip-caliper-overlay .surface').focus();
+      await ovl(page).focus('.surface');
       await page.keyboard.press('5'); // the one-point tool: no snapping
       for (const p of targets) {
         const c = toCss(p, box);
@@ -379,7 +380,7 @@ describe('CSS pixels to intrinsic pixels', () => {
     await injectOverlay(app, page.url());
     await ready(page);
     const gap = async () => {
-      const h = (await page.locator('clip-caliper-overlay').boundingBox())!;
+      const h = (await ovl(page).box())!;
       const v = (await page.locator('video').boundingBox())!;
       return Math.abs(h.x - v.x) + Math.abs(h.y - v.y) + Math.abs(h.width - v.width) + Math.abs(h.height - v.height);
     };
@@ -390,7 +391,7 @@ describe('CSS pixels to intrinsic pixels', () => {
     await expect.poll(gap).toBeLessThan(1);
     // 480x270 showing the 640x360 clip (scale 0.75), then scaled by 1.25 from its top-left: 0.9375 in all
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('5');
     for (const p of targets) await page.mouse.click(box.x + p.x * 0.9375, box.y + p.y * 0.9375);
     await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(targets.length);
@@ -408,10 +409,10 @@ describe('CSS pixels to intrinsic pixels', () => {
     await injectOverlay(app, page.url());
     await ready(frame);
     const box = (await frame.locator('video').boundingBox())!; // main-frame viewport coordinates
-    await frame.locator('clip-caliper-overlay .surface').focus();
+    await ovl(frame).focus('.surface');
     // the frame leaves no room outside the video, so the panel sits on it: hide it to mark beneath
     await page.keyboard.press('h');
-    await expect.poll(() => frame.locator('clip-caliper-overlay .panel').isVisible()).toBe(false);
+    await expect.poll(() => ovl(frame).visible('.panel')).toBe(false);
     await page.keyboard.press('5');
     for (const p of targets) await page.mouse.click(box.x + p.x, box.y + p.y);
     await expect.poll(async () => (await caseFor(frame.url())).marks.length).toBe(targets.length);
@@ -427,8 +428,8 @@ describe('CSS pixels to intrinsic pixels', () => {
 describe('keyboard, announcements and page changes', () => {
   it('marks from the keyboard alone: Enter places, arrows nudge by 1, 10 and 0.1 px, and changes are announced', async () => {
     const page = await withOverlay('/plain.html?keys');
-    const live = page.locator('clip-caliper-overlay [data-testid=live]');
-    await page.locator('clip-caliper-overlay .surface').focus();
+    const live = { textContent: () => ovl(page).text('[data-testid=live]') };
+    await ovl(page).focus('.surface');
     await page.keyboard.press('5'); // one point: the cursor starts at the picture's centre (320, 180)
     await expect.poll(() => live.textContent()).toContain('Object centre');
     await page.keyboard.press('Enter');
@@ -455,8 +456,8 @@ describe('keyboard, announcements and page changes', () => {
 
   it("says which of the object's dimensions a span is: by its buttons or the keys W and L, kept with each mark", async () => {
     const { page, box } = await measuring('/plain.html?dimension', '1');
-    const live = page.locator('clip-caliper-overlay [data-testid=live]');
-    const pressed = () => page.locator('clip-caliper-overlay .dims button[aria-pressed=true]').getAttribute('data-dimension');
+    const live = { textContent: () => ovl(page).text('[data-testid=live]') };
+    const pressed = () => ovl(page).attr('.dims button[aria-pressed=true]', 'data-dimension');
     const span = async (y: number) => {
       await page.mouse.move(box.x + 100, box.y + y);
       await page.mouse.down();
@@ -467,12 +468,12 @@ describe('keyboard, announcements and page changes', () => {
     expect(await pressed()).toBe('wingspan');
     await span(100);
     await expect.poll(dimensions).toEqual(['wingspan']);
-    await page.locator('clip-caliper-overlay .dims button[data-dimension=length]').click();
+    await ovl(page).click('.dims button[data-dimension=length]');
     expect(await pressed()).toBe('length');
     await expect.poll(() => live.textContent()).toContain('length');
     await span(150);
     await expect.poll(dimensions).toEqual(['wingspan', 'length']);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('w');
     expect(await pressed()).toBe('wingspan');
     await page.keyboard.press('Shift+L');
@@ -493,7 +494,7 @@ describe('keyboard, announcements and page changes', () => {
       await page.evaluate((top) => window.scrollTo(0, top), y);
       await expect
         .poll(async () => {
-          const h = (await page.locator('clip-caliper-overlay').boundingBox())!;
+          const h = (await ovl(page).box())!;
           const v = (await page.locator('video').boundingBox())!;
           return Math.abs(h.y - v.y) + Math.abs(h.x - v.x);
         })
@@ -515,7 +516,7 @@ describe('keyboard, announcements and page changes', () => {
     await expect.poll(() => overlays(page)).toBe(0);
     // and calling it up again says there is nothing to measure
     await injectOverlay(app, page.url());
-    await expect.poll(() => page.locator('clip-caliper-chooser [data-testid=chooser-heading]').textContent()).toContain('No video found');
+    await expect.poll(() => chooser(page).text('[data-testid=chooser-heading]')).toContain('No video found');
     await page.close();
   });
 });
@@ -527,13 +528,13 @@ describe('fullscreen and pixel density', () => {
    */
   async function fullscreenInTopLayer(path: string, button: string, fullscreenName: string, video: string): Promise<void> {
     const page = await withOverlay(path);
-    const inTopLayer = () => page.evaluate(() => document.querySelector('clip-caliper-overlay')!.matches(':popover-open'));
+    const inTopLayer = () => inOverlayWorld(page, (h) => h!.overlays()[0]!.host.matches(':popover-open'));
     // fullscreen is refused to a tab in the background
     await page.bringToFront();
     await page.click(button);
     await expect.poll(() => page.evaluate(() => document.fullscreenElement?.localName)).toBe(fullscreenName);
     await expect.poll(inTopLayer).toBe(true);
-    const host = (await page.locator('clip-caliper-overlay').boundingBox())!;
+    const host = (await ovl(page).box())!;
     const shown = (await page.locator(video).boundingBox())!;
     expect(Math.abs(host.x - shown.x)).toBeLessThan(1);
     expect(Math.abs(host.width - shown.width)).toBeLessThan(1);
@@ -551,9 +552,9 @@ describe('fullscreen and pixel density', () => {
     const page = await withOverlay('/fullscreen.html?box');
     await page.bringToFront();
     await page.click('#fs-box');
-    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.id)).toBe('box');
+    await expect.poll(() => inOverlayWorld(page, (h) => h!.overlays()[0]!.host.parentElement?.id)).toBe('box');
     await page.evaluate(() => document.exitFullscreen());
-    await expect.poll(() => page.evaluate(() => document.querySelector('clip-caliper-overlay')?.parentElement?.tagName)).toBe('HTML');
+    await expect.poll(() => inOverlayWorld(page, (h) => h!.overlays()[0]!.host.parentElement?.tagName)).toBe('HTML');
     await page.close();
   });
 
@@ -571,7 +572,7 @@ describe('fullscreen and pixel density', () => {
     await injectOverlay(app, page.url());
     await ready(page);
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('5');
     await page.mouse.click(box.x + 333.25, box.y + 211.75);
     await expect.poll(async () => (await caseFor(page.url())).marks.length).toBe(1);
@@ -597,9 +598,9 @@ describe('marking the fixture clip', () => {
       caseId: id,
       assumptions: { cameraLabel: 'Known camera, 39-41 deg', hfovDeg: { lo: 39, hi: 41 }, sizeLabel: 'code letter C wingspan, 24-36 m', objectSizeM: { lo: 24, hi: 36 }, aspectDeg: { lo: 90, hi: 90 }, landmarkSizeM: { lo: 8, hi: 30 } },
     });
-    await expect.poll(() => readout(page).textContent()).toContain('');
+    await expect.poll(() => readoutText(page)).toMatch(/saved/);
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await page.mouse.move(box.x + f.object.x1, box.y + f.object.y1);
     await page.mouse.down();
@@ -613,7 +614,7 @@ describe('marking the fixture clip', () => {
     // snapped ends stay within a pixel of the truth
     expect(Math.abs(mark.points[0]!.x - f.object.x1)).toBeLessThan(1);
     expect(Math.abs(mark.points[1]!.x - f.object.x2)).toBeLessThan(1);
-    const text = (await readout(page).locator('[data-testid=range]').textContent()) ?? '';
+    const text = (await ovl(page).text('[data-testid=readout] [data-testid=range]')) ?? '';
     const m = /Range \(slant\) ([\d.]+) (k?m) \(([\d.]+)–([\d.]+) (k?m)/.exec(text);
     expect(m, text).not.toBeNull();
     const scale = m![5] === 'km' ? 1000 : 1;
@@ -644,7 +645,7 @@ describe('marking the fixture clip', () => {
     // a screen capture is of the tab in front, as the user's tab is when they mark
     await page.bringToFront();
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     // start 1.2 px outside one end: only snapping brings it back onto the edge (a snap may move an
     // end 1.45 px on this 29 px span, 5 % of it; both ends so far out would change it more)
@@ -657,9 +658,9 @@ describe('marking the fixture clip', () => {
     // half the way back at least (measured: 0.22 px from the edge)
     expect(Math.abs(mark.points[0]!.x - f.object.x1)).toBeLessThan(0.6);
     expect(Math.abs(mark.points[1]!.x - f.object.x2)).toBeLessThan(1);
-    expect(await page.locator('clip-caliper-overlay [data-testid=notice]').textContent()).toContain('capture of the screen');
+    expect(await ovl(page).text('[data-testid=notice]')).toContain('capture of the screen');
     // the overlay is back after the capture
-    expect(await page.evaluate(() => getComputedStyle(document.querySelector('clip-caliper-overlay')!).visibility)).toBe('visible');
+    expect(await ovl(page).style(null, 'visibility')).toBe('visible');
     await page.close();
   });
 
@@ -671,7 +672,7 @@ describe('marking the fixture clip', () => {
     await injectOverlay(app, page.url());
     await ready(page);
     const box = (await page.locator('video').boundingBox())!;
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     // end 1 placed 3 px outside the wing tip: the edge is further than a snap may move an end of
     // this 28 px span (1.4 px); end 2 on the other tip
@@ -684,9 +685,9 @@ describe('marking the fixture clip', () => {
     // kept within the pointer's rounding of where it was put, not snapped onto the tip
     expect(Math.abs(mark.points[0]!.x - (f.object.x1 - 3))).toBeLessThanOrEqual(0.5);
     expect(Math.abs(mark.points[1]!.x - f.object.x2)).toBeLessThan(1);
-    const note = page.locator('clip-caliper-overlay [data-testid=snap-note]');
+    const note = { textContent: () => ovl(page).text('[data-testid=snap-note]'), count: () => ovl(page).count('[data-testid=snap-note]') };
     await expect.poll(() => note.textContent()).toContain('End 1 kept where you put it');
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=live]').textContent()).toContain('End 1 kept where you put it');
+    await expect.poll(() => ovl(page).text('[data-testid=live]')).toContain('End 1 kept where you put it');
     // the kept end claims the hand's floor with the lens showing at one video px per CSS px:
     // sqrt((1/sqrt(12))^2 + (1/sqrt(12))^2) (span-ends.ts); the snapped end at least 0.3 px
     const lensHand = Math.sqrt(2 / 12);
@@ -705,9 +706,9 @@ describe('marking the fixture clip', () => {
     await videoReady(page);
     await injectOverlay(app, page.url());
     await expect.poll(() => overlays(page)).toBe(1);
-    const panel = await page.locator('clip-caliper-overlay .panel').boundingBox();
+    const panel = await ovl(page).box('.panel');
     expect(panel!.width).toBeGreaterThan(100);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     for (const k of ['1', 'ArrowLeft', 'ArrowDown', 'k', 'Enter', ' ', 'Tab']) await page.keyboard.press(k);
     expect(await page.evaluate(() => (window as unknown as { __pageKeys: string[] }).__pageKeys)).toEqual([]);
     await page.close();
@@ -726,7 +727,7 @@ describe('marking the fixture clip', () => {
     const after = (await sendAsPopup(app, 'status/get', {})) as { startedAt: number };
     expect(after.startedAt).toBeGreaterThan(before.startedAt); // a fresh worker answered
     await injectOverlay(app, page.url()); // wakes a fresh worker
-    await expect.poll(() => readout(page).textContent()).toContain('1 mark saved');
+    await expect.poll(() => readoutText(page)).toContain('1 mark saved');
     expect((await caseFor(page.url())).marks).toHaveLength(1);
     await page.close();
   });
@@ -736,23 +737,25 @@ describe('marking the fixture clip', () => {
     // the moment the readout first says so, the page calls out and the stored case is read: the
     // store happened before the words or not at all (storage events reach other pages later, so
     // their timing would prove nothing)
-    let storedWhenSaid: number | null = null;
-    await page.exposeFunction('__clipCaliperSaid', async () => {
-      storedWhenSaid = (await caseFor(page.url()).catch(() => ({ marks: [] }))).marks.length;
-    });
-    await page.evaluate(() => {
-      const readout = document.querySelector('clip-caliper-overlay')!.shadowRoot!.querySelector('[data-testid=readout]')!;
+    // watched from the extension's world, which can read the storage itself the moment the words appear
+    await inOverlayWorld(page, (h, url: string) => {
+      const readout = h!.overlays()[0]!.root.querySelector('[data-testid=readout]')!;
+      const g = globalThis as unknown as { __storedWhenSaid?: number };
       const mo = new MutationObserver(() => {
         if (!readout.textContent!.includes('1 mark saved')) return;
         mo.disconnect();
-        void (window as unknown as { __clipCaliperSaid(): Promise<void> }).__clipCaliperSaid();
+        void chrome.storage.local.get(null).then((all) => {
+          const c = Object.values(all).find((x) => (x as { video?: { pageUrl?: string } }).video?.pageUrl === url) as { marks: unknown[] } | undefined;
+          g.__storedWhenSaid = c ? c.marks.length : 0;
+        });
       });
       mo.observe(readout, { childList: true, subtree: true, characterData: true });
-    });
+    }, page.url());
+    const storedWhenSaid = () => inOverlayWorld(page, () => (globalThis as unknown as { __storedWhenSaid?: number }).__storedWhenSaid ?? null);
     await stopServiceWorker(app); // the save must wake a fresh worker: the reply comes late
     await page.mouse.click(box.x + 100, box.y + 100);
-    await expect.poll(() => storedWhenSaid).not.toBeNull();
-    expect(storedWhenSaid).toBe(1);
+    await expect.poll(storedWhenSaid).not.toBeNull();
+    expect(await storedWhenSaid()).toBe(1);
     await page.close();
   });
 

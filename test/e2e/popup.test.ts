@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { promisify } from 'node:util';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
+import { ovl } from '../../extension/tools/overlay-world';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
 
 /*
@@ -56,7 +57,7 @@ async function popupFor(page: Page): Promise<Page> {
 async function markObjectAtEachFrame(page: Page, box: { x: number; y: number }, frames: { t: number; object: { x1: number; y1: number; x2: number; y2: number } }[]) {
   for (const [i, f] of frames.entries()) {
     await seek(page, f.t);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await drag(page, box, f.object);
     await overlayReady(page, i + 1);
@@ -85,7 +86,7 @@ describe('calling the overlay up from the popup', () => {
     const view = await popupFor(page);
     await view.getByTestId('measure').click();
     await overlayReady(page);
-    expect(await page.locator('clip-caliper-overlay').count()).toBe(1);
+    expect(await ovl(page).count()).toBe(1);
     // the view in a full tab stays (it follows the marks) and brings the measured tab forward
     expect(view.isClosed()).toBe(false);
     await expect.poll(() => page.evaluate(() => document.visibilityState)).toBe('visible');
@@ -110,7 +111,7 @@ describe('the popup view of a measured case', () => {
   it('shows the figures from the marks, follows typed assumptions, and keeps the last valid one on a bad entry', async () => {
     const f = truth.frames[1];
     const { page, box } = await overlaid('/plain.html?popup', f.t);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await drag(page, box, f.object);
     await page.keyboard.press('2');
@@ -161,7 +162,7 @@ describe('the popup view of a measured case', () => {
     expect(await readClipboard()).toMatch(/^# /);
 
     // the overlay follows the new assumptions at once
-    await expect.poll(() => page.locator('clip-caliper-overlay [data-testid=readout]').textContent()).toContain('field of view given');
+    await expect.poll(() => ovl(page).text('[data-testid=readout]')).toContain('field of view given');
 
     // a wrong entry is marked at its field, and the figures keep the last valid value
     const before = await view.getByTestId('range').textContent();
@@ -178,14 +179,14 @@ describe('the popup view of a measured case', () => {
     const { page, box } = await overlaid('/plain.html?first-use', truth.frames[0].t);
     const view = await popupFor(page);
     await page.bringToFront();
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await page.keyboard.press('L');
     await drag(page, box, truth.frames[0].object);
     await overlayReady(page, 1);
     await expect.poll(() => view.getByTestId('labels').textContent()).toContain('code letter C length, 26-45 m');
     expect(await view.getByTestId('dimension-mismatch').count()).toBe(0);
-    expect(await page.locator('clip-caliper-overlay [data-testid=dimension-mismatch]').count()).toBe(0);
+    expect(await ovl(page).count('[data-testid=dimension-mismatch]')).toBe(0);
     await view.close();
     await page.close();
   });
@@ -208,14 +209,14 @@ describe('the popup view of a measured case', () => {
     });
     const view = await popupFor(page);
     await page.bringToFront();
-    const live = page.locator('clip-caliper-overlay [data-testid=live]');
-    await page.locator('clip-caliper-overlay .surface').focus();
+    const live = { textContent: () => ovl(page).text('[data-testid=live]') };
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await page.keyboard.press('L'); // the span is the object's length; the case assumes a wingspan
     await expect.poll(() => live.textContent()).toContain('but the size assumed is a wingspan');
     await drag(page, box, truth.frames[0].object);
     await overlayReady(page, 1);
-    const overlayWarning = page.locator('clip-caliper-overlay [data-testid=dimension-mismatch]');
+    const overlayWarning = { textContent: () => ovl(page).text('[data-testid=dimension-mismatch]'), count: () => ovl(page).count('[data-testid=dimension-mismatch]') };
     await expect.poll(() => overlayWarning.textContent()).toContain('Marked as its length, but the size assumed is a wingspan');
     await expect.poll(() => view.getByTestId('dimension-mismatch').textContent()).toContain("The object's span is marked as its length, but the size assumed is a wingspan");
     expect(await view.locator('body').innerText()).toContain('1 mark · video 640×360'); // one mark, not "1 marks"
@@ -234,8 +235,8 @@ describe('the popup view of a measured case', () => {
     await seek(page, truth.frames[1].t);
     await injectOverlay(app, page.url());
     await overlayReady(page, 1);
-    await expect.poll(() => page.locator('clip-caliper-overlay .dims button[aria-pressed=true]').getAttribute('data-dimension')).toBe('length');
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await expect.poll(() => ovl(page).attr('.dims button[aria-pressed=true]', 'data-dimension')).toBe('length');
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await drag(page, box, truth.frames[1].object);
     await overlayReady(page, 2);
@@ -256,7 +257,7 @@ describe('the popup view of a measured case', () => {
     await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
 
     const { page, box } = await overlaid('/plain.html?settings');
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await drag(page, box, truth.frames[0].object);
 
@@ -267,7 +268,7 @@ describe('the popup view of a measured case', () => {
     expect(await view.getByTestId('case').textContent()).toContain('no stabilisation'); // the chosen camera
     expect(await view.getByTestId('range').textContent()).toMatch(/ (ft|NM) /); // aviation: feet or nautical miles
     // the overlay's live readout follows the same setting
-    expect(await page.locator('clip-caliper-overlay [data-testid=range]').textContent()).toMatch(/ (ft|NM) \(/);
+    expect(await ovl(page).text('[data-testid=range]')).toMatch(/ (ft|NM) \(/);
     await options.close();
     await view.close();
     await page.close();
@@ -327,7 +328,7 @@ describe('the popup view of a measured case', () => {
     const frames = large.frames.map((f: { t: number; spans: { length: { x1: number; y1: number; x2: number; y2: number } } }) => ({ t: f.t, object: f.spans.length }));
     for (const [i, f] of frames.entries()) {
       await seek(page, f.t);
-      await page.locator('clip-caliper-overlay .surface').focus();
+      await ovl(page).focus('.surface');
       await page.keyboard.press('1');
       await page.keyboard.press('L');
       await drag(page, box, f.object);
@@ -408,7 +409,7 @@ describe('the popup view of a measured case', () => {
     await expect.poll(() => options.getByRole('status').textContent()).toContain('Saved');
     await options.close();
     const { page, box } = await overlaid('/plain.html?named', truth.frames[0].t);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await drag(page, box, truth.frames[0].object);
     await overlayReady(page, 1);
@@ -432,7 +433,7 @@ describe('the popup view of a measured case', () => {
     const times = [0.2, 0.7, 1.2, 1.7];
     for (const [i, t] of times.entries()) {
       await seek(page, t);
-      await page.locator('clip-caliper-overlay .surface').focus();
+      await ovl(page).focus('.surface');
       await page.keyboard.press('4');
       await page.mouse.click(box.x + 300, box.y + 340);
       await overlayReady(page, i + 1);
@@ -452,7 +453,7 @@ describe('the popup view of a measured case', () => {
     await setUnits('metric');
     const f = truth.frames[2];
     const { page, box } = await overlaid('/plain.html?recompute', f.t);
-    await page.locator('clip-caliper-overlay .surface').focus();
+    await ovl(page).focus('.surface');
     await page.keyboard.press('1');
     await drag(page, box, f.object);
     await overlayReady(page, 1);

@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, tabIdFor, videoReady, type Loaded } from './harness';
+import { ovl } from '../../extension/tools/overlay-world';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
 import { demoAssumptions, markObjectAndLandmark } from '../../extension/tools/demo-flow';
 import { seedCases, writeCases } from './log-seed';
@@ -71,7 +72,7 @@ describe('walkthrough pictures from the demo clip', () => {
       const page = await markedDemo(app);
       if (scheme === 'light') {
         // the README's picture holds the whole panel (at 560 px high it cut the readout off)
-        const panel = (await page.locator('clip-caliper-overlay .panel').boundingBox())!;
+        const panel = (await ovl(page).box('.panel'))!;
         expect(panel.y + panel.height).toBeLessThanOrEqual(page.viewportSize()!.height);
         await shoot(page, 'overlay-marked');
       }
@@ -141,7 +142,7 @@ describe('the overlay on two fixture pages, light and dark', () => {
         await injectOverlay(app, page.url());
         await overlayReady(page);
         const box = (await page.locator('video').boundingBox())!;
-        await page.locator('clip-caliper-overlay .surface').focus();
+        await ovl(page).focus('.surface');
         await page.keyboard.press('1');
         // the object's ends on a page whose picture fills the box; a span in the middle otherwise
         const f = truth.frames[1].object;
@@ -156,7 +157,7 @@ describe('the overlay on two fixture pages, light and dark', () => {
         await page.mouse.up();
         await overlayReady(page, 1);
         // the whole panel is in the picture
-        const panel = (await page.locator('clip-caliper-overlay .panel').boundingBox())!;
+        const panel = (await ovl(page).box('.panel'))!;
         expect(panel.y + panel.height).toBeLessThanOrEqual(size.height);
         expect(panel.x + panel.width).toBeLessThanOrEqual(size.width);
         await shoot(page, `overlay-${name}-${scheme}`);

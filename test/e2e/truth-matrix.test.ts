@@ -5,6 +5,7 @@ import type { CaseRecord } from '../../src/case/schema';
 import type { Estimate } from '../../src/engine/stats';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, sendAsPopup, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
+import { ovl } from '../../extension/tools/overlay-world';
 import { loadTruth, MATRIX, pinnedLandmark, truthCase, type Ends, type Truth2 } from '../case/truth-cases';
 
 /*
@@ -72,7 +73,7 @@ async function markScene(t: Truth2, tag = ''): Promise<{ page: Page; c: CaseReco
   // a tab behind another draws no frames, and each pointer action would wait for one (DEVELOPERS.md)
   await page.bringToFront();
   const box = (await page.locator('video').boundingBox())!;
-  const surface = page.locator('clip-caliper-overlay .surface');
+  const surface = { focus: () => ovl(page).focus('.surface') };
   const pinned = pinnedLandmark(t);
   let count = 0;
   const saved = async () => overlayReady(page, ++count);

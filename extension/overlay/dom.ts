@@ -26,11 +26,24 @@ export function forceStyle(el: HTMLElement, styles: Record<string, string>): voi
 }
 
 /**
+ * Which input counts. Only events the browser made from the user's own input, always, in every
+ * build but for one case: the bench (npm run bench) times the pointer handlers with moves it
+ * dispatches itself, and only the test build lets it say so, from the extension's isolated world
+ * (overlay/index.ts), which the page cannot reach.
+ */
+export const inputPolicy = { benchSynthetic: false };
+
+/** Whether an event is the user's own input (see inputPolicy). */
+export function isUsersOwn(e: Event): boolean {
+  return e.isTrusted || inputPolicy.benchSynthetic;
+}
+
+/**
  * Wraps a handler so that it runs only for events the browser made from the user's own input. The
  * page under review can dispatch look-alike events (composed, at the host) but never trusted ones.
  */
 export function trusted<E extends Event>(fn: (e: E) => void): (e: E) => void {
   return (e) => {
-    if (e.isTrusted) fn(e);
+    if (isUsersOwn(e)) fn(e);
   };
 }

@@ -1,4 +1,4 @@
-import { forceStyle } from './dom';
+import { forceStyle, isUsersOwn } from './dom';
 import { forgetShell, type Shell } from './shell';
 import { containsAcrossShadows, fullscreenTarget } from './videos';
 
@@ -50,7 +50,7 @@ export class OverlayHost {
             return;
           }
           if (!e.composedPath().includes(this.el)) return;
-          if (type === 'keydown' && e.isTrusted) this.onKey?.(e as KeyboardEvent);
+          if (type === 'keydown' && isUsersOwn(e)) this.onKey?.(e as KeyboardEvent);
           e.stopImmediatePropagation();
         },
         { capture: true, signal },

@@ -1,4 +1,5 @@
 import { Chooser } from './chooser';
+import { inputPolicy } from './dom';
 import { MeasureSession } from './session';
 import { dropShell, takePreferredSrc, type CallUpStatus } from './shell';
 import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
@@ -110,8 +111,10 @@ dropShell();
 // closed in every build.
 if (import.meta.env.MODE === 'e2e') {
   (g as unknown as Record<symbol, unknown>)[Symbol.for('clip-caliper.e2e')] = {
-    overlays: () => [...reg.sessions.values()].map((s) => ({ host: s.shell.host, root: s.shell.root, byFirstStage: s.shell.byFirstStage, ready: s.ready })),
+    overlays: () => [...reg.sessions.values()].map((s) => ({ host: s.shell.host, root: s.shell.root, byFirstStage: s.shell.byFirstStage, ready: s.ready, readyAt: s.readyAt })),
     chooser: () => (reg.chooser?.alive ? { host: reg.chooser.el, root: reg.chooser.root } : null),
     status: () => reg.status(),
+    // the bench's own dispatched moves count as input (dom.ts inputPolicy); nothing else sets it
+    benchSynthetic: (on: boolean) => (inputPolicy.benchSynthetic = on),
   };
 }

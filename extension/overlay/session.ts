@@ -82,6 +82,8 @@ export class MeasureSession {
   private frameRequested = false;
   /** Wired, placed and focused (the browser tests wait for it through the test build's handle). */
   ready = false;
+  /** When it became ready, on the document's clock (the bench reads it through the test build's handle). */
+  readyAt = NaN;
 
   /** The host element and its closed root (for the call-up's check and the test build's handle). */
   get shell(): Pick<Shell, 'host' | 'root' | 'byFirstStage'> {
@@ -180,6 +182,7 @@ export class MeasureSession {
     void this.openCase();
     this.surface.focus();
     this.ready = true;
+    this.readyAt = performance.now();
   }
 
   /* ----------------------------------------------------------------------------------------- */

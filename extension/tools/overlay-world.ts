@@ -103,9 +103,11 @@ async function isolatedContext(t: Target, timeout = 10_000): Promise<{ world: Wo
 
 /** What the test build's handle offers (extension/overlay/index.ts). */
 export interface Handle {
-  overlays(): { host: HTMLElement; root: ShadowRoot; byFirstStage: boolean; ready: boolean }[];
+  overlays(): { host: HTMLElement; root: ShadowRoot; byFirstStage: boolean; ready: boolean; readyAt: number }[];
   chooser(): { host: HTMLElement; root: ShadowRoot } | null;
   status(): string;
+  /** The bench's dispatched pointer moves count as input (extension/overlay/dom.ts inputPolicy). */
+  benchSynthetic(on: boolean): boolean;
 }
 
 /**
@@ -114,7 +116,8 @@ export interface Handle {
  */
 export async function inOverlayWorld<R, A = undefined>(t: Target, fn: (h: Handle | null, arg: A) => R | Promise<R>, arg?: A, timeout = 10_000): Promise<R> {
   const { world, contextId } = await isolatedContext(t, timeout);
-  const expression = `(${fn.toString()})(globalThis[Symbol.for('clip-caliper.e2e')] ?? null, ${JSON.stringify(arg ?? null)})`;
+  // run from tsx (npm start), esbuild wraps named functions in __name(): give it one there
+  const expression = `(() => { const __name = (f) => f; return (${fn.toString()})(globalThis[Symbol.for('clip-caliper.e2e')] ?? null, ${JSON.stringify(arg ?? null)}); })()`;
   const reply = (await world.cdp.send('Runtime.evaluate', { expression, contextId, awaitPromise: true, returnByValue: true })) as {
     result: { value?: R };
     exceptionDetails?: { text: string; exception?: { description?: string } };

@@ -38,7 +38,7 @@ async function open(path: string): Promise<Page> {
   return page;
 }
 
-type StoredCase = { id: string; video: { pageUrl: string; pageTitle: string }; marks: { id: string; createdAt: number; points: { x: number }[] }[]; createdAt: number; updatedAt: number };
+type StoredCase = { id: string; video: { pageUrl: string; pageTitle: string }; marks: { id: string; createdAt: number; points: { x: number; y: number }[] }[]; createdAt: number; updatedAt: number };
 
 async function storedFor(url: string): Promise<StoredCase | undefined> {
   return (Object.values(await storedCases(app)) as StoredCase[]).find((c) => c.video.pageUrl === url);
@@ -174,7 +174,7 @@ describe('pages that zoom or scale', () => {
     await view.click('button[data-kind=object-centre]');
     await page.mouse.click(at.x, at.y);
     await overlayReady(page, 1);
-    const mark = (await storedFor(page.url()))!.marks[0]! as { points: { x: number; y: number }[] };
+    const mark = (await storedFor(page.url()))!.marks[0]!;
     // within the pointer's rounding: half a CSS px, in intrinsic px
     expect(Math.abs(mark.points[0]!.x - 480)).toBeLessThanOrEqual(0.5 / k + 0.01);
     expect(Math.abs(mark.points[0]!.y - 260)).toBeLessThanOrEqual(0.5 / k + 0.01);

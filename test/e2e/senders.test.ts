@@ -3,6 +3,7 @@ import type { CDPSession, Page } from 'playwright-core';
 import { caseIdFor } from '../../src/case/ids';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, sendAsPopup, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
+import { ovl } from '../../extension/tools/overlay-world';
 
 /*
  * The page under review is an adversary (issue 13): a content script of ours, in a tab whose page
@@ -122,7 +123,7 @@ describe('a content script acts only on its own page and tab', () => {
     // nothing moved: storage byte-identical, no overlay called up in B, B's case still there for the popup
     await pageB.waitForTimeout(500);
     expect(JSON.stringify(await storedCases(app))).toBe(before);
-    expect(await pageB.locator('clip-caliper-overlay').count()).toBe(0);
+    expect(await ovl(pageB).count()).toBe(0);
     expect(((await sendAsPopup(app, 'case/get', { caseId: caseB })) as { marks: unknown[] }).marks).toHaveLength(1);
 
     // while what the overlay needs on its own page still works from the same world

@@ -18,8 +18,10 @@ export function chromiumPath(): string {
  * The browser itself must make no request off the machine. With the flags above (and Playwright's
  * own defaults) a net log of a short run still showed three: POSTs to an update service (traffic
  * annotation update_client) and an account service (gaia_auth_list_accounts), each after a DNS
- * query to the machine's resolver. No switch turns those two off in this build, so they are fenced
- * instead: every request that is not for a loopback address goes to a proxy on 127.0.0.1:9, where
+ * query to the machine's resolver; both came with no extension loaded too, and with the profile's
+ * signin.allowed preference off (the account check runs once the network is up, whatever the
+ * sign-in settings: open report chromiumembedded/cef#4276). So they are fenced rather than
+ * switched off: every request that is not for a loopback address goes to a proxy on 127.0.0.1:9, where
  * nothing listens, and fails there at once (Chromium always bypasses the proxy for localhost,
  * 127.0.0.0/8 and [::1] unless told `<-loopback>`, so the test pages load directly); and every
  * name but the two loopback ones resolves to "not found" without asking a DNS server.

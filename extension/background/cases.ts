@@ -143,6 +143,22 @@ export function readCase(id: string): Promise<CaseRecord | null> {
   return serial(id, () => readUnlocked(id));
 }
 
+/**
+ * The page address a stored case was made on, or null when there is no readable case by that id.
+ * For the sender check (senders.ts): it reads without quarantining, so a page naming some other
+ * case cannot make the store move it.
+ */
+export async function casePageOf(id: string): Promise<string | null> {
+  const key = caseKey(id);
+  const raw = (await browser.storage.local.get(key))[key];
+  if (raw === undefined) return null;
+  try {
+    return readCaseRecord(raw).video.pageUrl;
+  } catch {
+    return null;
+  }
+}
+
 /** Writes one case whole; `what` names it in a quota message. */
 async function write(c: CaseRecord): Promise<CaseRecord> {
   validateCase(c);

@@ -17,15 +17,27 @@ import {
   takeSeek,
   undeleteCase,
   listDeleted,
+  casePageOf,
 } from './cases';
 import { injectOverlay, type CallUpOptions } from '../shared/call-up';
 import { foreignFrameOrigins, injectIntoOrigin } from './inject';
-import { routeMessages } from './router';
+import { routeMessages, type Guard } from './router';
+import { judge, needsCasePage, refusal, type SenderFacts } from './senders';
 
 const MENU_ID = 'clip-caliper-measure-video';
 // when this worker instance started: a worker the browser stopped comes back as a new instance
 const STARTED_AT = Date.now();
 export const COMMAND_ID = 'measure-video';
+
+/** Who asks (senders.ts decides): the facts the browser sets on each message, and the stored case's page when one is named. */
+const guard: Guard = async (type, payload, sender) => {
+  const facts: SenderFacts = { url: sender.url, tabId: sender.tab?.id, tabActive: sender.tab?.active };
+  const origin = browser.runtime.getURL('');
+  const caseId = needsCasePage(type, facts, origin, payload);
+  const casePage = caseId === null ? undefined : await casePageOf(caseId);
+  const verdict = judge(type, payload, facts, origin, casePage);
+  return verdict.allow ? null : refusal(type, verdict.reason);
+};
 
 browser.runtime.onMessage.addListener(
   routeMessages({
@@ -55,7 +67,7 @@ browser.runtime.onMessage.addListener(
     'storage/usage': async () => storageUsage(),
     'seek/request': async ({ pageUrl, t }) => requestSeek(pageUrl, t),
     'seek/take': async ({ pageUrl }) => takeSeek(pageUrl),
-  }),
+  }, guard),
 );
 
 browser.runtime.onInstalled.addListener(() => {

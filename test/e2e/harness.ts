@@ -14,6 +14,18 @@ export function chromiumPath(): string {
 /*
  * Flags for headless Chromium on this kind of machine: without the background-networking ones it
  * keeps trying (and failing) to reach the network; no sandbox as root; no GPU here.
+ *
+ * The browser itself must make no request off the machine. With the flags above (and Playwright's
+ * own defaults) a net log of a short run still showed three: POSTs to an update service (traffic
+ * annotation update_client) and an account service (gaia_auth_list_accounts), each after a DNS
+ * query to the machine's resolver; both came with no extension loaded too, and with the profile's
+ * signin.allowed preference off (the account check runs once the network is up, whatever the
+ * sign-in settings: open report chromiumembedded/cef#4276). So they are fenced rather than
+ * switched off: every request that is not for a loopback address goes to a proxy on 127.0.0.1:9, where
+ * nothing listens, and fails there at once (Chromium always bypasses the proxy for localhost,
+ * 127.0.0.0/8 and [::1] unless told `<-loopback>`, so the test pages load directly); and every
+ * name but the two loopback ones resolves to "not found" without asking a DNS server.
+ * test/e2e/offline.test.ts reads a net log to check this.
  */
 export const CHROMIUM_ARGS = [
   '--no-sandbox',
@@ -22,6 +34,8 @@ export const CHROMIUM_ARGS = [
   '--disable-component-update',
   '--disable-sync',
   '--no-first-run',
+  '--proxy-server=127.0.0.1:9',
+  '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE localhost, EXCLUDE 127.0.0.1',
 ];
 
 export interface Loaded {
@@ -32,14 +46,20 @@ export interface Loaded {
 }
 
 /** Launches headless Chromium with the built extension loaded from `dist` and waits for its worker. */
-export async function launchWithExtension(dist = resolve('dist'), options: { colorScheme?: 'light' | 'dark' } = {}): Promise<Loaded> {
+export async function launchWithExtension(dist = resolve('dist'), options: { colorScheme?: 'light' | 'dark'; netLog?: string } = {}): Promise<Loaded> {
   if (!existsSync(join(dist, 'manifest.json'))) throw new Error(`no build at ${dist}: run npm run build first`);
   const profile = mkdtempSync(join(tmpdir(), 'clip-caliper-e2e-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: chromiumPath(),
     headless: true,
     colorScheme: options.colorScheme ?? 'light',
-    args: [`--disable-extensions-except=${dist}`, `--load-extension=${dist}`, ...CHROMIUM_ARGS],
+    args: [
+      `--disable-extensions-except=${dist}`,
+      `--load-extension=${dist}`,
+      ...CHROMIUM_ARGS,
+      // netLog: a file for Chromium's own log of every request, socket and DNS lookup (written out on close)
+      ...(options.netLog ? [`--log-net-log=${options.netLog}`, '--net-log-capture-mode=Default'] : []),
+    ],
   });
   const worker = context.serviceWorkers()[0] ?? (await context.waitForEvent('serviceworker', { timeout: 30_000 }));
 

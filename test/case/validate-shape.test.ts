@@ -71,7 +71,7 @@ describe('a read keeps the known fields only', () => {
     const [read] = parseCaseFileAll(hostile);
     expect(Object.getPrototypeOf(read)).toBe(Object.prototype);
     expect(Object.hasOwn(read!, '__proto__')).toBe(false);
-    expect((read as Obj).polluted).toBeUndefined();
+    expect((read as unknown as Obj).polluted).toBeUndefined();
     expect(({} as Obj).polluted).toBeUndefined();
   });
 

@@ -3,7 +3,7 @@ import { listingOf } from '../../src/case/catalog';
 import { exportFileName, planImport } from '../../src/case/importing';
 import type { CaseListing, QuarantineEntry, StorageUsage } from '../../src/case/listing';
 import { newCase, upsertMark, removeMark, withAnnotation, withAssumptions, withVideo } from '../../src/case/marks';
-import { readCaseRecord } from '../../src/case/migrate';
+import { readStoredCase } from '../../src/case/stored';
 import { caseKey, type CaseAssumptions, type CaseRecord, type CaseStatus, type Mark, type VideoInfo } from '../../src/case/schema';
 import { stripFragment } from '../../src/case/ids';
 import { assumptionsFromSettings } from '../../src/case/case-settings';
@@ -118,7 +118,7 @@ async function readUnlocked(id: string): Promise<CaseRecord | null> {
   const raw = (await browser.storage.local.get(key))[key];
   if (raw === undefined) return null;
   try {
-    return readCaseRecord(raw);
+    return readStoredCase(key, raw);
   } catch (e) {
     await quarantine(key, raw, e);
     return null;
@@ -131,7 +131,7 @@ function quarantineIfStillBad(key: string): Promise<QuarantineEntry | null> {
     const raw = (await browser.storage.local.get(key))[key];
     if (raw === undefined) return null;
     try {
-      readCaseRecord(raw);
+      readStoredCase(key, raw);
       return null;
     } catch (e) {
       return quarantine(key, raw, e);
@@ -160,8 +160,9 @@ export async function casePageOf(id: string): Promise<string | null> {
 }
 
 /** Writes one case whole; `what` names it in a quota message. */
-async function write(c: CaseRecord): Promise<CaseRecord> {
-  validateCase(c);
+async function write(record: CaseRecord): Promise<CaseRecord> {
+  // the validated copy is what is stored: fields nothing reads (sent in a mark, say) are dropped
+  const c = validateCase(record);
   await setLocal(`case ${c.id} (${c.video.pageTitle || c.video.pageUrl || 'untitled'})`, { [caseKey(c.id)]: c });
   return c;
 }
@@ -222,7 +223,7 @@ export async function casesForPage(pageUrl: string): Promise<{ cases: CaseRecord
   for (const [key, raw] of Object.entries(all)) {
     if (!key.startsWith(CASE_PREFIX)) continue;
     try {
-      const c = readCaseRecord(raw);
+      const c = readStoredCase(key, raw);
       if (c.video.pageUrl === want) cases.push(c);
     } catch {
       unreadable++;
@@ -250,7 +251,7 @@ export async function listCases(): Promise<{ cases: CaseListing[]; quarantined: 
   for (const [key, raw] of Object.entries(all)) {
     if (!key.startsWith(CASE_PREFIX)) continue;
     try {
-      cases.push(listingOf(readCaseRecord(raw)));
+      cases.push(listingOf(readStoredCase(key, raw)));
     } catch (e) {
       moved = true;
       try {
@@ -347,7 +348,7 @@ export async function undeleteCase(caseId: string): Promise<CaseRecord> {
     if (raw !== undefined) {
       throw new Error(`case ${id}: not brought back, a case with this id exists again (the video was measured again after the delete); export or delete that one first`);
     }
-    const c = readCaseRecord(entry.record);
+    const c = readStoredCase(caseKey(id), entry.record);
     await write(c);
     await browser.storage.session.remove(sKey);
     return c;
@@ -388,7 +389,7 @@ export async function exportCases(caseIds?: unknown): Promise<{ fileName: string
     for (const [key, raw] of Object.entries(all)) {
       if (!key.startsWith(CASE_PREFIX)) continue;
       try {
-        cases.push(readCaseRecord(raw));
+        cases.push(readStoredCase(key, raw));
       } catch {
         await quarantineIfStillBad(key).catch(() => undefined);
       }

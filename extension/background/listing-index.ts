@@ -1,7 +1,7 @@
 import { listingOf } from '../../src/case/catalog';
 import type { CaseListing, QuarantineEntry } from '../../src/case/listing';
-import { readCaseRecord } from '../../src/case/migrate';
 import { CASE_PREFIX, QUARANTINE_PREFIX, quarantineEntry } from '../../src/case/store-policy';
+import { readStoredCase } from '../../src/case/stored';
 
 /*
  * The case log's listings, held in memory once a full read has validated every record, and kept
@@ -51,7 +51,7 @@ export function applyChange(key: string, value: unknown): void {
       return;
     }
     try {
-      cases.set(key, listingOf(readCaseRecord(value)));
+      cases.set(key, listingOf(readStoredCase(key, value)));
     } catch {
       drop();
     }

@@ -1,4 +1,5 @@
 import { readCaseRecord } from './migrate';
+import { MAX_FILE_NESTING, checkNesting } from './nesting';
 import { SCHEMA_VERSION, type CaseRecord } from './schema';
 import { CaseFormatError } from './validate';
 
@@ -43,8 +44,9 @@ export const MAX_CASES_PER_FILE = 5_000;
 
 /**
  * Reads a case file's text into its cases: JSON only (nothing in it is ever run or rendered),
- * each record migrated from its own schema version, and the whole file validated before any
- * case is returned; the error names the first bad field by its path.
+ * nested no deeper than MAX_FILE_NESTING, each record migrated from its own schema version, and
+ * the whole file validated before any case is returned (fields the schema does not list are
+ * dropped); the error names the first bad field by its path.
  */
 export function parseCaseFileAll(text: string): CaseRecord[] {
   if (typeof text !== 'string') throw new CaseFormatError('file', 'expected the text of a file');
@@ -57,6 +59,9 @@ export function parseCaseFileAll(text: string): CaseRecord[] {
   } catch (e) {
     throw new CaseFormatError('file', `not JSON (${(e as Error).message})`);
   }
+  // JSON.parse builds deep values without recursion (V8's parser keeps its own stack); what
+  // reads them after may recurse, so the depth is bounded here first
+  checkNesting(raw, 'file', MAX_FILE_NESTING);
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw new CaseFormatError('file', 'expected an object');
   const o = raw as Record<string, unknown>;
   if (o.format !== CASE_FILE_FORMAT) throw new CaseFormatError('file.format', `expected "${CASE_FILE_FORMAT}"`);

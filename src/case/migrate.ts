@@ -1,3 +1,4 @@
+import { MAX_RECORD_NESTING, checkNesting } from './nesting';
 import { SCHEMA_VERSION, type CaseRecord } from './schema';
 import { CaseFormatError, validateCase } from './validate';
 
@@ -75,7 +76,11 @@ export function migrate(raw: unknown, path = 'case'): unknown {
   return rec;
 }
 
-/** What every read and every import does: migrate, then validate the whole record. */
+/**
+ * What every read and every import does: bound the nesting (before anything recurses into the
+ * value), migrate, then validate the whole record. Returns the record's known fields only.
+ */
 export function readCaseRecord(raw: unknown, path = 'case'): CaseRecord {
+  checkNesting(raw, path, MAX_RECORD_NESTING);
   return validateCase(migrate(raw, path), path);
 }

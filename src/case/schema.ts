@@ -58,15 +58,18 @@ export interface Point {
   y: number;
 }
 
-/** How CSS pixels were mapped to intrinsic pixels when the mark was made (for audit, not for maths). */
+/**
+ * How CSS pixels were mapped to intrinsic pixels when the mark was made (for audit, not for maths).
+ * The overlay writes every field; a file may leave any out (the schema never required them).
+ */
 export interface DisplayMappingRecord {
-  objectFit: string;
-  objectPosition: string;
+  objectFit?: string;
+  objectPosition?: string;
   /** Rendered picture rectangle in CSS px relative to the element's content box. */
-  picture: { x: number; y: number; width: number; height: number };
+  picture?: { x?: number; y?: number; width?: number; height?: number };
   /** CSS transform scale of the element (1 when none). */
-  scale: number;
-  devicePixelRatio: number;
+  scale?: number;
+  devicePixelRatio?: number;
 }
 
 export interface Mark {

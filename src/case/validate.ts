@@ -12,7 +12,10 @@ import {
   type CaseRecord,
   type CaseStatus,
   type CaseVersion,
+  type DisplayMappingRecord,
   type Mark,
+  type Range,
+  type VideoInfo,
 } from './schema';
 
 /** A record that does not match the schema: the message names the path of the first bad field. */
@@ -31,64 +34,99 @@ export class CaseFormatError extends Error {
  */
 export const MAX_MARKS_PER_CASE = 10_000;
 const MAX_PX = 20_000;
-const OBJECT_KINDS = ['fixed-wing-transport', 'fixed-wing-light', 'light-sport', 'rotorcraft', 'unknown'];
-const DIMENSIONS = ['wingspan', 'length', 'height', 'other'];
+const OBJECT_KINDS = ['fixed-wing-transport', 'fixed-wing-light', 'light-sport', 'rotorcraft', 'unknown'] as const;
+const DIMENSIONS = ['wingspan', 'length', 'height', 'other'] as const;
+
+/*
+ * Every validator below builds what it returns from the fields it knows, in the schema's order:
+ * a field the schema does not list is dropped, never stored (it is used by no figure, and a value
+ * kept unread could be anything: a deep junk tree, a second copy of the case). A known field that
+ * is wrong is refused, naming its path. A field given as undefined counts as absent.
+ */
 
 /**
  * Validates an unknown value as a CaseRecord of the current schema; throws CaseFormatError. Run
- * migrate.ts first for anything read from storage or a file (readCaseRecord does both).
+ * migrate.ts first for anything read from storage or a file (readCaseRecord does both). Returns a
+ * new record of the known fields only.
  */
 export function validateCase(x: unknown, path = 'case'): CaseRecord {
-  const o = validateBody(x, path);
+  const o = obj(x, path);
+  const body = validateBody(o, path);
   if (!Array.isArray(o.history)) throw new CaseFormatError(`${path}.history`, 'expected a list');
   if (o.history.length > MAX_HISTORY) throw new CaseFormatError(`${path}.history`, `expected at most ${MAX_HISTORY} earlier versions, got ${o.history.length}`);
-  o.history.forEach((h, i) => {
+  const history = o.history.map((h, i) => {
     const hp = `${path}.history[${i}]`;
     const v = validateVersion(h, hp);
     // a version of another case would be a different case hidden inside this one
-    if (v.id !== o.id) throw new CaseFormatError(`${hp}.id`, `expected the case's own id ${String(o.id)}, got ${String(v.id)}`);
+    if (v.id !== body.id) throw new CaseFormatError(`${hp}.id`, `expected the case's own id ${body.id}, got ${v.id}`);
+    return v;
   });
-  return x as CaseRecord;
+  const { assumptions, createdAt, updatedAt, toolVersion, ...front } = body;
+  return { ...front, history, ...(assumptions ? { assumptions } : {}), createdAt, updatedAt, toolVersion };
 }
 
 /** Validates one earlier version (the record's fields without history, plus keptAt). */
 export function validateVersion(x: unknown, path: string): CaseVersion {
-  const v = validateBody(x, path);
-  if ('history' in v) throw new CaseFormatError(`${path}.history`, 'an earlier version holds no history of its own');
-  num(v.keptAt, `${path}.keptAt`, 0, 1e14);
-  return x as CaseVersion;
+  const o = obj(x, path);
+  const body = validateBody(o, path);
+  if ('history' in o) throw new CaseFormatError(`${path}.history`, 'an earlier version holds no history of its own');
+  return { ...body, keptAt: num(o.keptAt, `${path}.keptAt`, 0, 1e14) };
 }
 
-/** Everything a record and an earlier version share; returns the object for the caller's extra checks. */
-function validateBody(x: unknown, path: string): Record<string, unknown> {
-  const o = obj(x, path);
+/** Everything a record and an earlier version share, built from the known fields. */
+function validateBody(o: Record<string, unknown>, path: string): Omit<CaseVersion, 'keptAt'> {
   if (o.schema !== SCHEMA_VERSION) throw new CaseFormatError(`${path}.schema`, `expected ${SCHEMA_VERSION}, got ${String(o.schema)}`);
-  str(o.id, `${path}.id`, 1, 200);
-  const v = obj(o.video, `${path}.video`);
-  str(v.pageUrl, `${path}.video.pageUrl`, 0, 8192);
-  str(v.pageTitle, `${path}.video.pageTitle`, 0, 2000);
-  str(v.src, `${path}.video.src`, 0, 8192);
-  num(v.width, `${path}.video.width`, 1, MAX_PX);
-  num(v.height, `${path}.video.height`, 1, MAX_PX);
-  if (v.duration !== null) num(v.duration, `${path}.video.duration`, 0, 1e7);
+  const id = str(o.id, `${path}.id`, 1, 200);
+  const video = validateVideo(o.video, `${path}.video`);
   if (!Array.isArray(o.marks)) throw new CaseFormatError(`${path}.marks`, 'expected a list');
   if (o.marks.length > MAX_MARKS_PER_CASE) {
     throw new CaseFormatError(`${path}.marks`, `expected at most ${MAX_MARKS_PER_CASE} marks, got ${o.marks.length}`);
   }
-  o.marks.forEach((m, i) => validateMark(m, `${path}.marks[${i}]`, v.width as number, v.height as number));
-  validateNotes(o.notes, `${path}.notes`);
-  validateStatus(o.status, `${path}.status`);
-  validateTags(o.tags, `${path}.tags`);
-  if (o.assumptions !== undefined) validateAssumptions(o.assumptions, `${path}.assumptions`);
-  num(o.createdAt, `${path}.createdAt`, 0, 1e14);
-  num(o.updatedAt, `${path}.updatedAt`, 0, 1e14);
-  str(o.toolVersion, `${path}.toolVersion`, 1, 50);
-  return o;
+  const marks = o.marks.map((m, i) => validateMark(m, `${path}.marks[${i}]`, video.width, video.height));
+  const notes = validateNotes(o.notes, `${path}.notes`);
+  const status = validateStatus(o.status, `${path}.status`);
+  const tags = validateTags(o.tags, `${path}.tags`);
+  const assumptions = o.assumptions !== undefined ? validateAssumptions(o.assumptions, `${path}.assumptions`) : undefined;
+  const createdAt = num(o.createdAt, `${path}.createdAt`, 0, 1e14);
+  const updatedAt = num(o.updatedAt, `${path}.updatedAt`, 0, 1e14);
+  const toolVersion = str(o.toolVersion, `${path}.toolVersion`, 1, 50);
+  return { schema: SCHEMA_VERSION, id, video, marks, notes, status, tags, ...(assumptions ? { assumptions } : {}), createdAt, updatedAt, toolVersion };
+}
+
+/**
+ * The video's addresses. The page address is what the log opens and what a case is about: one
+ * on another scheme (javascript:, data:) is refused, naming the field. The media address only
+ * informs (the case id was made from it); one on another scheme (data:, blob:) is what an empty
+ * address already means, a media with no address of its own, so it is read as empty.
+ */
+function validateVideo(x: unknown, path: string): VideoInfo {
+  const v = obj(x, path);
+  const pageUrl = str(v.pageUrl, `${path}.pageUrl`, 0, 8192);
+  if (!isKeptAddress(pageUrl)) {
+    throw new CaseFormatError(`${path}.pageUrl`, `expected an ${KEPT_SCHEMES_TEXT} address (or nothing), got ${describe(pageUrl)}`);
+  }
+  const pageTitle = str(v.pageTitle, `${path}.pageTitle`, 0, 2000);
+  const src = str(v.src, `${path}.src`, 0, 8192);
+  const width = num(v.width, `${path}.width`, 1, MAX_PX);
+  const height = num(v.height, `${path}.height`, 1, MAX_PX);
+  const duration = v.duration === null ? null : num(v.duration, `${path}.duration`, 0, 1e7);
+  return { pageUrl, pageTitle, src: isKeptAddress(src) ? src : '', width, height, duration };
+}
+
+/** Schemes a stored address may have (as case-file.schema.json's pattern says), or none when empty. */
+export const KEPT_SCHEMES = ['http', 'https', 'file'] as const;
+const KEPT_SCHEMES_TEXT = 'http, https or file';
+/**
+ * True for '' and for an address that starts with one of KEPT_SCHEMES and a colon (a scheme is
+ * case-insensitive, RFC 3986 section 3.1). Read from the first character: a URL parser strips
+ * leading spaces and drops tabs inside a scheme ("java\tscript:"), a prefix test does not.
+ */
+export function isKeptAddress(s: string): boolean {
+  return s === '' || /^(?:https?|file):/i.test(s);
 }
 
 export function validateNotes(x: unknown, path: string): string {
-  str(x, path, 0, MAX_NOTES_CHARS);
-  return x as string;
+  return str(x, path, 0, MAX_NOTES_CHARS);
 }
 
 export function validateStatus(x: unknown, path: string): CaseStatus {
@@ -107,7 +145,7 @@ export function validateTags(x: unknown, path: string): string[] {
     if (seen.has(t as string)) throw new CaseFormatError(`${path}[${i}]`, `"${t as string}" is already a tag of this case`);
     seen.add(t as string);
   });
-  return x as string[];
+  return [...(x as string[])];
 }
 
 /**
@@ -125,100 +163,153 @@ export function normaliseTags(x: unknown, path = 'tags'): string[] {
   return validateTags(out, path);
 }
 
+const SIZE_DIMENSIONS = ['wingspan', 'length'] as const;
+const DIRECTIONS = ['opposite', 'same', 'same-slower', 'same-faster', 'unknown'] as const;
+
 export function validateAssumptions(x: unknown, path: string): CaseAssumptions {
   const a = obj(x, path);
-  str(a.cameraLabel, `${path}.cameraLabel`, 0, 200);
-  str(a.sizeLabel, `${path}.sizeLabel`, 0, 200);
-  range(a.hfovDeg, `${path}.hfovDeg`, 0.01, 179.9);
-  range(a.objectSizeM, `${path}.objectSizeM`, 0.001, 1000);
-  if (a.sizeDimension !== undefined && a.sizeDimension !== 'wingspan' && a.sizeDimension !== 'length') {
-    throw new CaseFormatError(`${path}.sizeDimension`, 'expected one of wingspan, length');
-  }
-  range(a.aspectDeg, `${path}.aspectDeg`, 0.01, 179.99);
-  range(a.landmarkSizeM, `${path}.landmarkSizeM`, 0.001, 1000);
+  const cameraLabel = str(a.cameraLabel, `${path}.cameraLabel`, 0, 200);
+  const sizeLabel = str(a.sizeLabel, `${path}.sizeLabel`, 0, 200);
+  const hfovDeg = range(a.hfovDeg, `${path}.hfovDeg`, 0.01, 179.9);
+  const objectSizeM = range(a.objectSizeM, `${path}.objectSizeM`, 0.001, 1000);
+  const sizeDimension = a.sizeDimension === undefined ? undefined : oneOf(a.sizeDimension, `${path}.sizeDimension`, SIZE_DIMENSIONS);
+  const aspectDeg = range(a.aspectDeg, `${path}.aspectDeg`, 0.01, 179.99);
+  const landmarkSizeM = range(a.landmarkSizeM, `${path}.landmarkSizeM`, 0.001, 1000);
+  let landmarkSizes: CaseAssumptions['landmarkSizes'];
   if (a.landmarkSizes !== undefined) {
     if (!Array.isArray(a.landmarkSizes) || a.landmarkSizes.length > 100) throw new CaseFormatError(`${path}.landmarkSizes`, 'expected a list of at most 100 landmarks');
     const ids = new Set<string>();
-    a.landmarkSizes.forEach((l, i) => {
+    landmarkSizes = a.landmarkSizes.map((l, i) => {
       const e = obj(l, `${path}.landmarkSizes[${i}]`);
-      str(e.id, `${path}.landmarkSizes[${i}].id`, 1, 100);
-      if (ids.has(e.id as string)) throw new CaseFormatError(`${path}.landmarkSizes[${i}].id`, `"${e.id as string}" has a size already`);
-      ids.add(e.id as string);
-      range(e.sizeM, `${path}.landmarkSizes[${i}].sizeM`, 0.001, 1000);
+      const id = str(e.id, `${path}.landmarkSizes[${i}].id`, 1, 100);
+      if (ids.has(id)) throw new CaseFormatError(`${path}.landmarkSizes[${i}].id`, `"${id}" has a size already`);
+      ids.add(id);
+      return { id, sizeM: range(e.sizeM, `${path}.landmarkSizes[${i}].sizeM`, 0.001, 1000) };
     });
   }
-  if (a.landmarkAspectDeg !== undefined) range(a.landmarkAspectDeg, `${path}.landmarkAspectDeg`, 0.01, 179.99);
-  if (a.trackAngleDeg !== undefined) range(a.trackAngleDeg, `${path}.trackAngleDeg`, -80, 80);
-  if (a.cameraHeightM !== undefined) range(a.cameraHeightM, `${path}.cameraHeightM`, 0, 1000);
-  if (a.elevationDeg !== undefined) range(a.elevationDeg, `${path}.elevationDeg`, -30, 85);
-  if (a.observerSpeedMs !== undefined) range(a.observerSpeedMs, `${path}.observerSpeedMs`, 0, 1000);
-  if (a.laneCycleId !== undefined && !LANE_CYCLES.some((l) => l.id === a.laneCycleId)) {
-    throw new CaseFormatError(`${path}.laneCycleId`, `expected one of ${LANE_CYCLES.map((l) => l.id).join(', ')}`);
-  }
-  if (a.objectKind !== undefined && !OBJECT_KINDS.includes(a.objectKind as string)) {
-    throw new CaseFormatError(`${path}.objectKind`, `expected one of ${OBJECT_KINDS.join(', ')}`);
-  }
-  const directions = ['opposite', 'same', 'same-slower', 'same-faster', 'unknown'];
-  if (a.direction !== undefined && !directions.includes(a.direction as string)) {
-    throw new CaseFormatError(`${path}.direction`, `expected one of ${directions.join(', ')}`);
-  }
+  const opt = (k: string, min: number, max: number) => (a[k] === undefined ? undefined : range(a[k], `${path}.${k}`, min, max));
+  const landmarkAspectDeg = opt('landmarkAspectDeg', 0.01, 179.99);
+  const trackAngleDeg = opt('trackAngleDeg', -80, 80);
+  const cameraHeightM = opt('cameraHeightM', 0, 1000);
+  const elevationDeg = opt('elevationDeg', -30, 85);
+  const observerSpeedMs = opt('observerSpeedMs', 0, 1000);
+  const laneCycleId = a.laneCycleId === undefined ? undefined : oneOf(a.laneCycleId, `${path}.laneCycleId`, LANE_CYCLES.map((l) => l.id));
+  const objectKind = a.objectKind === undefined ? undefined : oneOf(a.objectKind, `${path}.objectKind`, OBJECT_KINDS);
+  const direction = a.direction === undefined ? undefined : oneOf(a.direction, `${path}.direction`, DIRECTIONS);
   // a headwind beyond hurricane force (Beaufort 12 starts at 32.7 m/s, WMO) is a typing slip
-  if (a.headwindMs !== undefined) range(a.headwindMs, `${path}.headwindMs`, -60, 60);
+  const headwindMs = opt('headwindMs', -60, 60);
+  let fixedCamera: CaseAssumptions['fixedCamera'];
   if (a.fixedCamera !== undefined) {
     const f = obj(a.fixedCamera, `${path}.fixedCamera`);
     if (f.mount !== 'tripod' && f.mount !== 'vehicle') throw new CaseFormatError(`${path}.fixedCamera.mount`, 'expected one of tripod, vehicle');
-    range(f.axisHeadingDeg, `${path}.fixedCamera.axisHeadingDeg`, -180, 180);
-    if (f.pitchDeg !== undefined) range(f.pitchDeg, `${path}.fixedCamera.pitchDeg`, -89, 89);
+    const axisHeadingDeg = range(f.axisHeadingDeg, `${path}.fixedCamera.axisHeadingDeg`, -180, 180);
+    const pitchDeg = f.pitchDeg === undefined ? undefined : range(f.pitchDeg, `${path}.fixedCamera.pitchDeg`, -89, 89);
+    fixedCamera = { mount: f.mount, axisHeadingDeg, ...(pitchDeg ? { pitchDeg } : {}) };
   }
-  return x as CaseAssumptions;
+  return defined<CaseAssumptions>({
+    cameraLabel,
+    hfovDeg,
+    sizeLabel,
+    objectSizeM,
+    sizeDimension,
+    aspectDeg,
+    landmarkSizeM,
+    landmarkSizes,
+    landmarkAspectDeg,
+    observerSpeedMs,
+    laneCycleId,
+    objectKind,
+    direction,
+    trackAngleDeg,
+    cameraHeightM,
+    elevationDeg,
+    headwindMs,
+    fixedCamera,
+  });
 }
 
-function range(x: unknown, path: string, min: number, max: number): void {
+function range(x: unknown, path: string, min: number, max: number): Range {
   const r = obj(x, path);
-  num(r.lo, `${path}.lo`, min, max);
-  num(r.hi, `${path}.hi`, min, max);
-  if ((r.hi as number) < (r.lo as number)) throw new CaseFormatError(path, `low end ${String(r.lo)} is above the high end ${String(r.hi)}`);
+  const lo = num(r.lo, `${path}.lo`, min, max);
+  const hi = num(r.hi, `${path}.hi`, min, max);
+  if (hi < lo) throw new CaseFormatError(path, `low end ${lo} is above the high end ${hi}`);
+  return { lo, hi };
 }
 
 export function validateMark(x: unknown, path: string, videoWidth: number, videoHeight: number): Mark {
   const m = obj(x, path);
-  str(m.id, `${path}.id`, 1, 100);
+  const id = str(m.id, `${path}.id`, 1, 100);
   if (!MARK_KINDS.includes(m.kind as Mark['kind'])) {
     throw new CaseFormatError(`${path}.kind`, `expected one of ${MARK_KINDS.join(', ')}`);
   }
-  num(m.t, `${path}.t`, 0, 1e7);
-  if (!Array.isArray(m.points) || m.points.length !== POINTS_PER_KIND[m.kind as Mark['kind']]) {
-    throw new CaseFormatError(`${path}.points`, `expected ${POINTS_PER_KIND[m.kind as Mark['kind']]} points for ${String(m.kind)}`);
+  const kind = m.kind as Mark['kind'];
+  const t = num(m.t, `${path}.t`, 0, 1e7);
+  if (!Array.isArray(m.points) || m.points.length !== POINTS_PER_KIND[kind]) {
+    throw new CaseFormatError(`${path}.points`, `expected ${POINTS_PER_KIND[kind]} points for ${kind}`);
   }
-  m.points.forEach((p, j) => {
+  const points = m.points.map((p, j) => {
     const q = obj(p, `${path}.points[${j}]`);
     // a point may sit a little past the picture (an end snapped at the edge); far outside is an error
-    num(q.x, `${path}.points[${j}].x`, -videoWidth, 2 * videoWidth);
-    num(q.y, `${path}.points[${j}].y`, -videoHeight, 2 * videoHeight);
+    return { x: num(q.x, `${path}.points[${j}].x`, -videoWidth, 2 * videoWidth), y: num(q.y, `${path}.points[${j}].y`, -videoHeight, 2 * videoHeight) };
   });
-  num(m.edgeSigmaPx, `${path}.edgeSigmaPx`, 0, 50);
-  if (m.dimension !== undefined && !DIMENSIONS.includes(m.dimension as string)) {
-    throw new CaseFormatError(`${path}.dimension`, `expected one of ${DIMENSIONS.join(', ')}`);
+  const edgeSigmaPx = num(m.edgeSigmaPx, `${path}.edgeSigmaPx`, 0, 50);
+  const dimension = m.dimension === undefined ? undefined : oneOf(m.dimension, `${path}.dimension`, DIMENSIONS);
+  const landmarkId = m.landmarkId === undefined ? undefined : str(m.landmarkId, `${path}.landmarkId`, 1, 100);
+  const landmarkDimension = m.landmarkDimension === undefined ? undefined : oneOf(m.landmarkDimension, `${path}.landmarkDimension`, LANDMARK_DIMENSIONS);
+  const by = m.by === undefined ? undefined : str(m.by, `${path}.by`, 1, 100);
+  const mapping = validateMapping(m.mapping, `${path}.mapping`);
+  const createdAt = num(m.createdAt, `${path}.createdAt`, 0, 1e14);
+  return defined<Mark>({ id, kind, t, points, edgeSigmaPx, dimension, landmarkId, landmarkDimension, mapping, by, createdAt });
+}
+
+/**
+ * How the mark's pixels were mapped: kept for audit and used by no figure, so each field is
+ * optional (the schema never required them); a field given must have its type, and anything else
+ * in the object is dropped.
+ */
+function validateMapping(x: unknown, path: string): DisplayMappingRecord {
+  const o = obj(x, path);
+  const text = (k: string) => (o[k] === undefined ? undefined : str(o[k], `${path}.${k}`, 0, 200));
+  const n = (r: Record<string, unknown>, k: string, p: string) => (r[k] === undefined ? undefined : num(r[k], `${p}.${k}`, -1e7, 1e7));
+  let picture: DisplayMappingRecord['picture'];
+  if (o.picture !== undefined) {
+    const r = obj(o.picture, `${path}.picture`);
+    const pp = `${path}.picture`;
+    picture = defined({ x: n(r, 'x', pp), y: n(r, 'y', pp), width: n(r, 'width', pp), height: n(r, 'height', pp) });
   }
-  if (m.landmarkId !== undefined) str(m.landmarkId, `${path}.landmarkId`, 1, 100);
-  if (m.landmarkDimension !== undefined && m.landmarkDimension !== 'height' && m.landmarkDimension !== 'width') {
-    throw new CaseFormatError(`${path}.landmarkDimension`, 'expected one of height, width');
-  }
-  if (m.by !== undefined) str(m.by, `${path}.by`, 1, 100);
-  obj(m.mapping, `${path}.mapping`);
-  num(m.createdAt, `${path}.createdAt`, 0, 1e14);
-  return x as Mark;
+  return defined<DisplayMappingRecord>({
+    objectFit: text('objectFit'),
+    objectPosition: text('objectPosition'),
+    picture,
+    scale: n(o, 'scale', path),
+    devicePixelRatio: n(o, 'devicePixelRatio', path),
+  });
+}
+
+const LANDMARK_DIMENSIONS = ['height', 'width'] as const;
+
+/** The object without its undefined fields: an absent option stays absent, as JSON would have it. */
+function defined<T extends object>(o: T): T {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(o)) if (v !== undefined) out[k] = v;
+  return out as T;
+}
+
+function oneOf<T extends string>(x: unknown, path: string, allowed: readonly T[]): T {
+  if (!allowed.includes(x as T)) throw new CaseFormatError(path, `expected one of ${allowed.join(', ')}`);
+  return x as T;
 }
 
 function obj(x: unknown, path: string): Record<string, unknown> {
   if (typeof x !== 'object' || x === null || Array.isArray(x)) throw new CaseFormatError(path, 'expected an object');
   return x as Record<string, unknown>;
 }
-function str(x: unknown, path: string, min: number, max: number): void {
+function str(x: unknown, path: string, min: number, max: number): string {
   if (typeof x !== 'string') throw new CaseFormatError(path, 'expected text');
   // characters as a reader counts them (code points, as JSON Schema's maxLength does), not UTF-16 units
   const n = codePoints(x);
   if (n < min || n > max) throw new CaseFormatError(path, `expected ${min} to ${max} characters, got ${n}`);
+  return x;
 }
 function surrogatePairs(s: string): number {
   let pairs = 0;
@@ -240,7 +331,8 @@ function codePoints(s: string): number {
 function describe(x: unknown): string {
   return typeof x === 'string' ? `"${x.length > 40 ? `${x.slice(0, 40)}…` : x}"` : x === undefined ? 'nothing' : JSON.stringify(x) ?? String(x);
 }
-function num(x: unknown, path: string, min: number, max: number): void {
+function num(x: unknown, path: string, min: number, max: number): number {
   if (typeof x !== 'number' || !Number.isFinite(x)) throw new CaseFormatError(path, 'expected a finite number');
   if (x < min || x > max) throw new CaseFormatError(path, `expected ${min} to ${max}, got ${x}`);
+  return x;
 }

@@ -19,7 +19,8 @@ const message = (f: () => unknown): string => {
 describe('annotations: status, tags, notes', () => {
   it('a new case is open, untagged, with no history, and valid', () => {
     expect(base).toMatchObject({ status: 'open', tags: [], history: [] });
-    expect(validateCase(base)).toBe(base);
+    // valid: the validated copy (known fields only) holds exactly what was given
+    expect(validateCase(base)).toStrictEqual(base);
   });
 
   it('withAnnotation sets only the fields given and leaves the original alone', () => {
@@ -68,7 +69,7 @@ describe('annotations: status, tags, notes', () => {
   it('history: versions of this case only, without their own history', () => {
     const { history: _h, ...body } = base;
     const ok = { ...base, history: [{ ...body, keptAt: 5 }] };
-    expect(validateCase(ok)).toBe(ok);
+    expect(validateCase(ok)).toStrictEqual(ok);
     expect(message(() => validateCase({ ...base, history: [{ ...body, id: 'another', keptAt: 5 }] }))).toBe(
       "case.history[0].id: expected the case's own id 0123456789abcdef, got another",
     );

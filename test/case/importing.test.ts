@@ -26,7 +26,7 @@ describe('merging one case', () => {
     expect(m.history).toHaveLength(1);
     const { history: _h, ...baseBody } = base;
     expect(m.history[0]).toEqual({ ...baseBody, keptAt: 999 });
-    expect(validateCase(m)).toBe(m);
+    expect(validateCase(m)).toStrictEqual(m);
     // whichever side is stored, the same front and the same history
     const other = mergeCase(edited, base, 999);
     expect(contentKey(other)).toBe(contentKey(m));

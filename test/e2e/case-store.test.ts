@@ -153,6 +153,44 @@ describe('reading validates every record', () => {
   });
 });
 
+describe('what is stored is the known fields, under the record\'s own key', () => {
+  it('a record under another id\'s key is quarantined with that reason (it was listed yet could not be edited, deleted or set aside), by a full listing and by the index', async () => {
+    const good = await open('keyid00000000001');
+    const copy = { ...good, notes: 'invented copy under another key' };
+    await plant({ 'case:keyid00000000002': copy });
+    const list = await ask<{ cases: { id: string }[]; quarantined: { key: string; reason: string }[] }>('cases/list');
+    expect(list.cases.filter((c) => c.id === good.id)).toHaveLength(1);
+    const reason = (key: string) => `case.id: expected "${key.slice(5)}", the id its storage key "${key}" names, got "keyid00000000001"`;
+    expect(list.quarantined.find((q) => q.key === 'case:keyid00000000002')?.reason).toBe(reason('case:keyid00000000002'));
+    const raw = await local(['case:keyid00000000002', 'quarantine:case:keyid00000000002']);
+    expect(raw['case:keyid00000000002']).toBeUndefined();
+    expect((raw['quarantine:case:keyid00000000002'] as { raw: unknown }).raw).toEqual(copy); // kept whole
+    // the listing is now served from the index: a record planted under another key afterwards drops it, and the next listing sets it aside too
+    await plant({ 'case:keyid00000000003': copy });
+    await expect
+      .poll(async () => (await ask<{ quarantined: { key: string; reason: string }[] }>('cases/list')).quarantined.find((q) => q.key === 'case:keyid00000000003')?.reason)
+      .toBe(reason('case:keyid00000000003'));
+    expect((await ask<CaseRecord>('case/get', { caseId: good.id })).notes).toBe('');
+  });
+
+  it('fields nothing reads are dropped from a mark sent and from an imported file; an import with a javascript: page address is refused naming it', async () => {
+    const c = await open('shape00000000001');
+    await ask('mark/put', { caseId: c.id, mark: { ...mark('j1', 100), junk: { deep: [1] } } });
+    const stored = (await local(`case:${c.id}`))[`case:${c.id}`] as { marks: Record<string, unknown>[] };
+    expect(stored.marks.map((m) => Object.hasOwn(m, 'junk'))).toEqual([false]);
+
+    const incoming = { ...c, id: 'shape00000000002', extra: 'invented', video: { ...c.video, src: 'data:video/webm;base64,AAAA' } };
+    await ask('cases/import', { text: JSON.stringify({ format: 'clip-caliper-case', schema: 3, case: incoming }) });
+    const imported = (await local('case:shape00000000002'))['case:shape00000000002'] as Record<string, unknown>;
+    expect(Object.hasOwn(imported, 'extra')).toBe(false);
+    expect((imported.video as VideoInfo).src).toBe('');
+
+    const hostile = { ...incoming, id: 'shape00000000003', video: { ...c.video, pageUrl: 'javascript:alert(1)' } };
+    expect(await askFails('cases/import', { text: JSON.stringify({ format: 'clip-caliper-case', schema: 3, case: hostile }) })).toContain('file.case.video.pageUrl: expected an http, https or file address');
+    expect((await local('case:shape00000000003'))['case:shape00000000003']).toBeUndefined();
+  });
+});
+
 describe('the storage quota', () => {
   it('is the browser’s QUOTA_BYTES; a write that would not fit fails naming the case and sizes, and nothing saved changes', async () => {
     const quota = await ext.evaluate(() => chrome.storage.local.QUOTA_BYTES);

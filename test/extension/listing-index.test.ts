@@ -38,6 +38,12 @@ describe('the case log index', () => {
     expect(indexed()).toBeNull();
   });
 
+  it('drops itself when a record arrives under another id\'s key: it would be listed yet not editable, so the full read quarantines it', () => {
+    rebuild([listingOf(record('a'))], [], currentGeneration());
+    applyChange('case:b', record('a', 5));
+    expect(indexed()).toBeNull();
+  });
+
   it('tracks quarantine entries', () => {
     rebuild([], [], currentGeneration());
     applyChange('quarantine:case:x', quarantineRecord('case:x', { junk: true }, new Error('bad'), 9));

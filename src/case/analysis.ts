@@ -146,6 +146,11 @@ export interface AnalysisOptions {
   seriesDraws?: number;
   trackDraws?: number;
   seed?: number;
+  /**
+   * Hears how far the computation is, in steps (a frame solved, a draw of the pass), for a progress
+   * bar: the total is known from the start and only grows if the pass turns out to have more.
+   */
+  onProgress?: (done: number, total: number) => void;
 }
 
 const SAME_FRAME_S = 1 / 48;
@@ -188,7 +193,12 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   const problems: string[] = [];
   const timestamps: TimestampFigures[] = [];
   const near = marksIndex(c.marks);
-  for (const m of allObjects) {
+  const report = options.onProgress;
+  // steps: each frame, then each draw of each sign of the pass (counted as if the pass will run)
+  const passSteps = (count: number) => cappedDraws(count, 2_000, PASS_DRAW_BUDGET).draws * signsFor(a.direction).length;
+  let total = allObjects.length + passSteps(allObjects.length);
+  for (const [i, m] of allObjects.entries()) {
+    report?.(i, total);
     const here = near(m.t);
     const landmark = here.find((x) => x.kind === 'landmark-span') ?? null;
     const horizon = a.fixedCamera ? null : horizonAt(here, m.t, frame);
@@ -238,7 +248,8 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     const inputs = passInputs(objects, c.marks, a, field.hfov, frame, axis);
     passDraws = options.seriesDraws === undefined ? cappedDraws(objects.length, 2_000, PASS_DRAW_BUDGET) : { draws: options.seriesDraws, tail: 0.05, capped: false };
     try {
-      const result = solvePass(inputs.scene, signsFor(a.direction), { draws: passDraws.draws, seed, tail: passDraws.tail });
+      total = allObjects.length + passDraws.draws * signsFor(a.direction).length;
+      const result = solvePass(inputs.scene, signsFor(a.direction), { draws: passDraws.draws, seed, tail: passDraws.tail }, report && ((done) => report(allObjects.length + done, total)));
       const lead = result.hypotheses.find((h) => !h.ruledOut) ?? result.hypotheses[0]!;
       series = {
         closestApproach: lead.closestSlant,
@@ -314,6 +325,7 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     }
   }
 
+  report?.(total, total);
   const large = largeCaseNote(frameDraws, allObjects.length, passDraws, objects.length);
   if (large) warnings.push({ code: 'large-case', text: large });
 

@@ -162,7 +162,8 @@ function nominalFit(d: PassData, sgn: number, eps: number, beta: number, mask: n
   return bestChi2;
 }
 
-export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], options: SolveOptions = {}): PassResult {
+/** `onDraw`, when given, hears how many bootstrap draws are done, of draws x directions (for a progress bar). */
+export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], options: SolveOptions = {}, onDraw?: (done: number) => void): PassResult {
   const { draws, seed, tail } = checkOptions(options, 2_000);
   checkScene(scene);
   const n = scene.marks.length;
@@ -190,9 +191,10 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
 
   const hypotheses: PassHypothesis[] = [];
   const store = drawStore(bins, usable.length, draws, scene.landmarks.length);
-  for (const s of usable) {
+  for (const [j, s] of usable.entries()) {
     const rng = new Rng(seed);
-    const h = bootstrap(scene, d, sig, s.sgn, s.best, mask, rng, draws, tail, bins, store);
+    const tick = onDraw ? (i: number) => onDraw(j * draws + i) : undefined;
+    const h = bootstrap(scene, d, sig, s.sgn, s.best, mask, rng, draws, tail, bins, store, tick);
     toPhysical(s.best, s.sgn, d.u, phys);
     const nominal = { params: Array.from(phys), u: d.u, tr: d.tr };
     hypotheses.push({ ...h, sign: s.sgn, nominalChi2: s.chi2, residuals: residualCount, ruledOut: s.chi2 - bestChi2 > 9, nominal });
@@ -203,7 +205,7 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
 
 type Figures = Omit<PassHypothesis, 'sign' | 'nominalChi2' | 'residuals' | 'ruledOut' | 'nominal'>;
 
-function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number, tail: number, bins: PassBins | null, store: DrawStore | null): Figures {
+function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number, tail: number, bins: PassBins | null, store: DrawStore | null, tick?: (done: number) => void): Figures {
   const n = d0.n;
   const d = passData(n);
   d.tr = d0.tr;
@@ -240,6 +242,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
   d.axis = scene.object.axis;
   scene.marks.forEach((m, k) => (d.t[k] = m.t));
   for (let i = 0; i < draws; i++) {
+    if (tick && i % 25 === 0) tick(i);
     let bad = false;
     if (store?.has(i)) bad = store.load(i, d, v, fd);
     else {

@@ -165,7 +165,7 @@ const SAME_FRAME_S = 1 / 48;
  */
 export const FRAME_DRAW_BUDGET = 128 * 20_000;
 export const PASS_DRAW_BUDGET = 512 * 2_000;
-export const MIN_CAPPED_DRAWS = 500;
+export const MIN_CAPPED_DRAWS = 300;
 
 /** The draws for `units` solves of `full` draws each within `budget` draws in all, in hundreds; with the interval's tail. */
 export function cappedDraws(units: number, full: number, budget: number): { draws: number; tail: number; capped: boolean } {

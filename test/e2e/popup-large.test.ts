@@ -68,7 +68,8 @@ describe('the popup on a case at the mark limit', () => {
     expect(await text.count()).toBe(1);
     // an edit (a lane cycle chosen) is taken while computing, and starts the figures afresh
     await view.getByTestId('field-lanes').selectOption({ index: 1 });
-    expect(await view.getByTestId('field-lanes').inputValue()).not.toBe('');
+    // the select follows the stored case, so it shows the choice once the edit is saved
+    await expect.poll(() => view.getByTestId('field-lanes').inputValue(), { timeout: 30_000 }).not.toBe('');
 
     // the figures arrive, one per frame, from the edited case (the chosen cycle asks for dashes), with
     // the note that a case this large ran fewer draws

@@ -49,6 +49,8 @@ export default defineConfig(({ mode }) => {
       // the Firefox floor is the manifest's strict_min_version (manifest.config.ts says why)
       target: firefox ? 'firefox140' : 'chrome120',
     },
+    // the popup's analysis worker (extension/popup/use-analysis.ts) is a module worker
+    worker: { format: 'es' as const },
     server: { strictPort: true },
   };
 });

@@ -1,5 +1,7 @@
 import { useMemo, useState } from 'preact/hooks';
-import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
+import type { CaseAnalysis } from '../../src/case/analysis';
+import { engineAssumptions } from '../../src/case/assumptions';
+import { useAnalysis, type AnalysisState } from './use-analysis';
 import { Results } from './results';
 import { defaultAssumptions } from '../../src/case/assumptions';
 import { parseBand } from '../../src/case/bands';
@@ -250,9 +252,33 @@ function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitS
   );
 }
 
+/** Where the figures will be while the worker computes them: how far along, as a bar and in words. */
+function Computing({ progress, error }: Pick<AnalysisState, 'progress' | 'error'>) {
+  if (error) {
+    return (
+      <p class="error" role="alert" data-testid="analysis-error">
+        {message('caseAnalysisFailed', error)}
+      </p>
+    );
+  }
+  const done = progress?.done ?? 0;
+  const total = Math.max(progress?.total ?? 1, 1);
+  const pct = Math.min(100, Math.floor((100 * done) / total));
+  return (
+    <section class="computing" data-testid="computing" aria-label={message('caseResultsLabel')}>
+      <p role="status" data-testid="computing-text">
+        {message('caseComputing', [String(pct), String(done), String(total)])}
+      </p>
+      <progress data-testid="computing-progress" max={total} value={done} aria-label={message('caseComputingBar')} />
+    </section>
+  );
+}
+
 export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
   const a = c.assumptions ?? defaultAssumptions();
-  const r = useMemo(() => analyseCase(c), [c]);
+  // the figures come from a worker; what the assumptions section needs is cheap and drawn at once
+  const { r, progress, error } = useAnalysis(c);
+  const given = useMemo(() => engineAssumptions(c.assumptions, c.marks), [c]);
   const [saveError, setSaveError] = useState<string | null>(null);
   const save = (next: CaseAssumptions) => {
     send('case/assume', { caseId: c.id, assumptions: next }).then(
@@ -264,15 +290,15 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
     <article data-testid="case">
       <h2 class="title">{c.video.pageTitle || c.video.pageUrl}</h2>
       <p class="muted">
-        {message(c.marks.length === 1 ? (r.assumptions.defaults ? 'caseOneMarkVideoDefaults' : 'caseOneMarkVideo') : r.assumptions.defaults ? 'caseMarksVideoDefaults' : 'caseMarksVideo', [String(c.marks.length), String(c.video.width), String(c.video.height)])}
+        {message(c.marks.length === 1 ? (given.defaults ? 'caseOneMarkVideoDefaults' : 'caseOneMarkVideo') : given.defaults ? 'caseMarksVideoDefaults' : 'caseMarksVideo', [String(c.marks.length), String(c.video.width), String(c.video.height)])}
       </p>
       <p class="muted" data-testid="labels">
-        {message('caseLabels', [r.assumptions.cameraLabel, r.assumptions.sizeLabel])}
+        {message('caseLabels', [given.cameraLabel, given.sizeLabel])}
       </p>
       <section aria-label={message('caseAssumptionsLabel')} class="assumptions">
         <CameraPicker a={a} onSave={save} />
         <SizePicker a={a} onSave={save} dimension={dimensionMarked(c)} />
-        {r.dimensionMismatch && (
+        {r?.dimensionMismatch && (
           <p class="error" role="status" data-testid="dimension-mismatch">
             {r.dimensionMismatch}
           </p>
@@ -312,7 +338,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
               </option>
             ))}
           </select>
-          {r.laneSpeed && (
+          {r?.laneSpeed && (
             <div data-testid="lane-speed">
               {message('caseLaneSpeed', [
                 String(r.laneSpeed.passes),
@@ -323,12 +349,18 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
               ])}
             </div>
           )}
-          {r.laneSpeedMissing && <div class="muted">{r.laneSpeedMissing}</div>}
+          {r?.laneSpeedMissing && <div class="muted">{r.laneSpeedMissing}</div>}
         </FormField>
         {saveError && <p class="error">{saveError}</p>}
       </section>
-      <Results r={r} system={system} />
-      <Share c={c} r={r} system={system} />
+      {r ? (
+        <>
+          <Results r={r} system={system} />
+          <Share c={c} r={r} system={system} />
+        </>
+      ) : (
+        <Computing progress={progress} error={error} />
+      )}
     </article>
   );
 }

@@ -42,6 +42,7 @@ const WARNING_KEYS: Readonly<Record<CaseWarning['code'], string>> = {
   'portrait-field': 'caseWarnPortrait',
   'direction-unsupported': 'caseWarnDirection',
   'mixed-dimensions': 'caseWarnMixed',
+  'large-case': 'caseWarnLarge',
 };
 
 const REGIME_KEYS = { between: 'caseRegimeBetween', beyond: 'caseRegimeBeyond', behind: 'caseRegimeBehind', none: 'caseRegimeNone' } as const;

@@ -1,11 +1,12 @@
 import type { AxisCode } from '../engine/pass-model';
 import { solvePass, type Conditioning, type PassHypothesis, type PassMarkFigures, type PassReading, type PassResult } from '../engine/pass-series';
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
-import type { Estimate } from '../engine/stats';
+import { cautiousTail, type Estimate } from '../engine/stats';
+import { passBins } from '../engine/pass-bins';
 import { solveFrame, type FrameResult } from '../engine/frame-solve';
 import type { RegimeShares } from '../engine/uncertainty';
 import { engineAssumptions, type EngineAssumptions } from './assumptions';
-import { cameraFrame, marksAt, spanInFrame, type FrameRect } from './frames';
+import { cameraFrame, marksIndex, spanInFrame, type FrameRect } from './frames';
 import { checkLandmarks, type LandmarkCheck } from './landmark-checks';
 import { allowedReadings, axisOf, fieldOfView, horizonAt, landmarkBody, LEVEL, passInputs, signsFor, type FieldOfView } from './pass-scene';
 import type { CaseRecord, Mark } from './schema';
@@ -93,7 +94,8 @@ export type WarningCode =
   | 'elevation-assumed'
   | 'portrait-field'
   | 'direction-unsupported'
-  | 'mixed-dimensions';
+  | 'mixed-dimensions'
+  | 'large-case';
 
 export interface CaseWarning {
   code: WarningCode;
@@ -144,9 +146,33 @@ export interface AnalysisOptions {
   seriesDraws?: number;
   trackDraws?: number;
   seed?: number;
+  /**
+   * Hears how far the computation is, in steps (a frame solved, a draw of the pass), for a progress
+   * bar: the total is known from the start and only grows if the pass turns out to have more.
+   */
+  onProgress?: (done: number, total: number) => void;
 }
 
 const SAME_FRAME_S = 1 / 48;
+
+/*
+ * A case near the mark limit (validate.ts MAX_MARKS_PER_CASE) would take each frame's 20 000 draws
+ * and the pass's 2 000 on thousands of frames: minutes, and a frozen page. Past these budgets the
+ * draws per frame (and per pass) shrink so that the whole stays within them, never below
+ * MIN_CAPPED_DRAWS, and every interval is widened for its draws' Monte Carlo error (stats.ts
+ * cautiousTail) so that it still holds at least the central 90 %. Ordinary cases (up to 128 marked
+ * frames, up to 512 frames in the pass) are under both budgets and keep their figures exactly.
+ */
+export const FRAME_DRAW_BUDGET = 128 * 20_000;
+export const PASS_DRAW_BUDGET = 512 * 2_000;
+export const MIN_CAPPED_DRAWS = 300;
+
+/** The draws for `units` solves of `full` draws each within `budget` draws in all, in hundreds; with the interval's tail. */
+export function cappedDraws(units: number, full: number, budget: number): { draws: number; tail: number; capped: boolean } {
+  if (units * full <= budget) return { draws: full, tail: 0.05, capped: false };
+  const draws = Math.max(MIN_CAPPED_DRAWS, Math.floor(budget / units / 100) * 100);
+  return { draws, tail: cautiousTail(draws), capped: true };
+}
 
 export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseAnalysis {
   const given = engineAssumptions(c.assumptions, c.marks);
@@ -156,7 +182,8 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   const a = lanes.speed ? { ...given, observerSpeed: { lo: lanes.speed.speed.lo, hi: lanes.speed.speed.hi } } : given;
   const frame = cameraFrame(c.marks, c.video.width, c.video.height);
   const field = fieldOfView(a, frame);
-  const draws = options.draws ?? 20_000;
+  const frameDraws = options.draws === undefined ? cappedDraws(c.marks.filter((m) => m.kind === 'object-span').length, 20_000, FRAME_DRAW_BUDGET) : { draws: options.draws, tail: 0.05, capped: false };
+  const draws = frameDraws.draws;
   const seed = options.seed ?? 1;
   const frameSize = { widthPx: frame.right - frame.left, heightPx: frame.bottom - frame.top };
   const warnings: CaseWarning[] = [];
@@ -165,9 +192,16 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   const allObjects = c.marks.filter((m) => m.kind === 'object-span').sort((x, y) => x.t - y.t);
   const problems: string[] = [];
   const timestamps: TimestampFigures[] = [];
-  for (const m of allObjects) {
-    const landmark = marksAt(c.marks, m.t).find((x) => x.kind === 'landmark-span') ?? null;
-    const horizon = a.fixedCamera ? null : horizonAt(c.marks, m.t, frame);
+  const near = marksIndex(c.marks);
+  const report = options.onProgress;
+  // steps: each frame, then each draw of each sign of the pass (counted as if the pass will run)
+  const passSteps = (count: number) => cappedDraws(count, 2_000, PASS_DRAW_BUDGET).draws * signsFor(a.direction).length;
+  let total = allObjects.length + passSteps(allObjects.length);
+  for (const [i, m] of allObjects.entries()) {
+    report?.(i, total);
+    const here = near(m.t);
+    const landmark = here.find((x) => x.kind === 'landmark-span') ?? null;
+    const horizon = a.fixedCamera ? null : horizonAt(here, m.t, frame);
     try {
       const result = solveFrame(
         {
@@ -181,7 +215,7 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
           ...(a.elevation ? { elevation: a.elevation } : {}),
           cameraHeight: a.cameraHeight,
         },
-        { draws, seed },
+        { draws, seed, tail: frameDraws.tail },
       );
       const [p, q] = m.points;
       timestamps.push({ t: m.t, objectMark: m, spanPx: Math.hypot(q!.x - p!.x, q!.y - p!.y), result, landmarkMark: landmark, regime: majority(result.regimeShares), fitted: null });
@@ -204,6 +238,7 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   let track: TrackSummary | null = null;
   let trackMissing: string | null = a.fixedCamera ? null : 'A ground track needs a camera that kept its aim (a tripod, or a mount fixed to the vehicle): say so in the assumptions.';
   const axis = axisOf(dimension);
+  let passDraws: ReturnType<typeof cappedDraws> | null = null;
   if (objects.length < needed) {
     seriesMissing = `The pass needs the object's ends marked at ${needed} or more timestamps (${objects.length} so far).`;
     if (a.fixedCamera) trackMissing = `A ground track needs the object’s ends marked at 2 or more timestamps (${objects.length} so far).`;
@@ -211,8 +246,10 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     seriesMissing = trackMissing = 'A ground track from a moving vehicle needs the observer’s speed (given, or measured from lane dashes).';
   } else {
     const inputs = passInputs(objects, c.marks, a, field.hfov, frame, axis);
+    passDraws = options.seriesDraws === undefined ? cappedDraws(objects.length, 2_000, PASS_DRAW_BUDGET) : { draws: options.seriesDraws, tail: 0.05, capped: false };
     try {
-      const result = solvePass(inputs.scene, signsFor(a.direction), { draws: options.seriesDraws ?? 2_000, seed });
+      total = allObjects.length + passDraws.draws * signsFor(a.direction).length;
+      const result = solvePass(inputs.scene, signsFor(a.direction), { draws: passDraws.draws, seed, tail: passDraws.tail }, report && ((done) => report(allObjects.length + done, total)));
       const lead = result.hypotheses.find((h) => !h.ruledOut) ?? result.hypotheses[0]!;
       series = {
         closestApproach: lead.closestSlant,
@@ -226,8 +263,12 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
         draws: result.draws,
         seed: result.seed,
       };
+      const place = new Map<string, number>();
+      objects.forEach((m, k) => {
+        if (!place.has(m.id)) place.set(m.id, k);
+      });
       for (const ts of timestamps) {
-        const k = objects.findIndex((m) => m.id === ts.objectMark.id);
+        const k = place.get(ts.objectMark.id) ?? -1;
         if (k >= 0) ts.fitted = lead.marks[k] ?? null;
       }
       warnings.push(...passWarnings(series, a, objects));
@@ -284,6 +325,10 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     }
   }
 
+  report?.(total, total);
+  const large = largeCaseNote(frameDraws, allObjects.length, passDraws, objects.length);
+  if (large) warnings.push({ code: 'large-case', text: large });
+
   const verdicts: JudgedReading[] = [];
   let verdictMissing: string | null = null;
   if (readings.length === 0) {
@@ -325,6 +370,21 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
     warnings,
     dimensionMismatch: mismatch ? mismatchText(mismatch) : null,
   };
+}
+
+/** What a case past the budgets gave up, in plain words, with the interval's widened ends. */
+function largeCaseNote(frames: ReturnType<typeof cappedDraws>, frameCount: number, pass: ReturnType<typeof cappedDraws> | null, passCount: number): string | null {
+  const parts: string[] = [];
+  const ends = (x: { tail: number }) => `${(100 * x.tail).toFixed(1)} % to ${(100 - 100 * x.tail).toFixed(1)} %`;
+  if (frames.capped) parts.push(`each of its ${frameCount} frames alone from ${frames.draws} draws instead of 20 000, its intervals from the ${ends(frames)} points`);
+  if (pass?.capped) {
+    const bins = passBins(passCount);
+    parts.push(
+      `the pass from ${pass.draws} draws instead of 2 000, its intervals from the ${ends(pass)} points${bins ? `, each draw fitted on ${bins.count} bins of up to ${bins.start[1]} consecutive frames` : ''}`,
+    );
+  }
+  if (parts.length === 0) return null;
+  return `A case this large is computed with fewer draws, so it recomputes in seconds: ${parts.join('; ')}. The intervals are widened for the fewer draws' Monte Carlo error, so each still holds at least the central 90 % (with 95 % confidence at each end).`;
 }
 
 function fmt(e: Estimate): string {

@@ -5,7 +5,7 @@ import { CAMERA_PROFILES, PROFILE_DERIVATIONS } from '../engine/profiles';
 import type { HorizonLine, LandmarkBody } from '../engine/frame-solve';
 import type { Band } from '../engine/uncertainty';
 import type { EngineAssumptions } from './assumptions';
-import { marksAt, spanInFrame, type FrameRect } from './frames';
+import { marksAt, marksIndex, spanInFrame, type FrameRect } from './frames';
 import { landmarkDimensionOf } from './marks';
 import type { Mark, Point } from './schema';
 
@@ -122,10 +122,12 @@ export function passInputs(
   const horizons: HorizonMark[] = [];
   const landmarks: LandmarkMark[] = [];
   const landmarkMarks: Mark[] = [];
+  const near = marksIndex(all);
   for (const o of objects) {
-    const h = a.fixedCamera ? null : horizonAt(all, o.t, frame);
+    const here = near(o.t);
+    const h = a.fixedCamera ? null : horizonAt(here, o.t, frame);
     if (h) horizons.push({ t: o.t, ...h });
-    for (const m of marksAt(all, o.t)) {
+    for (const m of here) {
       if (m.kind !== 'landmark-span') continue;
       const body = landmarkBody(m, a, frame);
       landmarks.push({ id: landmarkKey(m), t: o.t, span: body.span, size: body.size, dimension: body.dimension ?? 'height', ...(body.aspect ? { aspect: body.aspect } : {}) });

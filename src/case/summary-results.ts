@@ -47,6 +47,7 @@ const WARNING_NAMES: Readonly<Record<WarningCode, string>> = {
   'portrait-field': 'Portrait picture',
   'direction-unsupported': 'Direction not allowed by the marks',
   'mixed-dimensions': 'Spans of several dimensions',
+  'large-case': 'Fewer draws for a large case',
 };
 
 const AXIS_TEXT: Readonly<Record<AxisCode, string>> = {

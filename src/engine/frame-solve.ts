@@ -118,7 +118,7 @@ export interface FrameResult {
 const frameColumns = new Columns();
 
 export function solveFrame(scene: FrameScene, options: SolveOptions = {}): FrameResult {
-  const { draws, seed } = checkOptions(options);
+  const { draws, seed, tail } = checkOptions(options);
   const W = scene.frame?.widthPx;
   const H = scene.frame?.heightPx;
   positive('camera frame width', W, MAX_FRAME_PX, ' px');
@@ -183,28 +183,28 @@ export function solveFrame(scene: FrameScene, options: SolveOptions = {}): Frame
 
   const keptShare = finiteShare(range, draws);
   const result: FrameResult = {
-    angularSize: summarize(theta, draws),
-    range: summarize(range, draws),
+    angularSize: summarize(theta, draws, tail),
+    range: summarize(range, draws, tail),
     elevationSource: source,
     keptShare,
     draws,
     seed,
   };
   if (source && finiteShare(hRange, n) > 0) {
-    result.horizontalRange = summarize(hRange, n);
-    result.elevation = summarize(elev, n);
+    result.horizontalRange = summarize(hRange, n, tail);
+    result.elevation = summarize(elev, n, tail);
   }
   if (lm) {
-    result.landmarkRange = summarize(dRange, draws);
-    if (finiteShare(dHoriz, n) > 0) result.landmarkHorizontalRange = summarize(dHoriz, n);
+    result.landmarkRange = summarize(dRange, draws, tail);
+    if (finiteShare(dHoriz, n) > 0) result.landmarkHorizontalRange = summarize(dHoriz, n, tail);
   }
   if (wantsFixedPoint) {
     if (finiteShare(frac, n) > 0) {
-      result.fixedPointFraction = summarize(frac, n);
+      result.fixedPointFraction = summarize(frac, n, tail);
       // with a landmark, the fixed point is the landmark: its distance is the landmark's
-      result.fixedPointDistance = lm ? (result.landmarkHorizontalRange ?? result.landmarkRange!) : summarize(fdist, n);
+      result.fixedPointDistance = lm ? (result.landmarkHorizontalRange ?? result.landmarkRange!) : summarize(fdist, n, tail);
     }
-    if (lm && finiteShare(speed, n) > 0) result.impliedSpeed = summarize(speed, n);
+    if (lm && finiteShare(speed, n) > 0) result.impliedSpeed = summarize(speed, n, tail);
     if (shares) result.regimeShares = shares;
   }
   return result;

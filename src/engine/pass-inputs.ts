@@ -189,6 +189,7 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
 
   v.hasElevation = false;
   v.hasAzimuth = !!scene.fixed;
+  const frames = sameFrames(scene);
   // one part of every span's length error shared by the whole pass (see SHARED_EDGE_SHARE)
   const shared = pick.normal(1);
   scene.marks.forEach((m, k) => {
@@ -205,13 +206,13 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
       tilt = fixedTilt;
       source = fixedSource;
     } else {
-      const hi = scene.horizons.findIndex((h) => Math.abs(h.t - m.t) < SAME_FRAME_S);
+      const hi = frames.horizon[k]!;
       if (hi >= 0) {
         tilt = horizonTilts[hi]!;
         source = 1;
       } else {
-        const li = scene.landmarks.findIndex((lm, i) => baseTilt[i] && Math.abs(lm.t - m.t) < SAME_FRAME_S);
-        if (li >= 0) {
+        const li = frames.landmarks[k]!.find((i) => baseTilt[i]);
+        if (li !== undefined) {
           tilt = baseTilt[li]!;
           source = 2;
         }
@@ -229,6 +230,54 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
       d.sAzim[k] = angleSigma;
     } else d.azim[k] = Number.NaN;
   });
+}
+
+/** For each object mark, the horizon and the landmarks marked on its frame, by index. */
+interface SameFrames {
+  counts: [number, number, number];
+  horizon: Int32Array;
+  landmarks: number[][];
+}
+
+const sameFrameCache = new WeakMap<PassScene, SameFrames>();
+
+/**
+ * Which horizon and landmarks share each mark's frame: the same for every draw of a scene, so found
+ * once (a pass of thousands of marks searched them per mark per draw, quadratic in the marks). The
+ * first match in list order, as a search from the front would find it.
+ */
+function sameFrames(scene: PassScene): SameFrames {
+  const counts: SameFrames['counts'] = [scene.marks.length, scene.horizons.length, scene.landmarks.length];
+  let s = sameFrameCache.get(scene);
+  if (s && s.counts.every((c, i) => c === counts[i])) return s;
+  const n = scene.marks.length;
+  s = { counts, horizon: new Int32Array(n).fill(-1), landmarks: Array.from({ length: n }, () => []) };
+  const byTime = (ts: readonly { t: number }[]) => ts.map((x, i) => ({ t: x.t, i })).sort((a, b) => a.t - b.t || a.i - b.i);
+  const horizons = byTime(scene.horizons);
+  const landmarks = byTime(scene.landmarks);
+  for (let k = 0; k < n; k++) {
+    const t = scene.marks[k]!.t;
+    let h = -1;
+    for (const x of within(horizons, t)) if (h < 0 || x.i < h) h = x.i;
+    s.horizon[k] = h;
+    s.landmarks[k] = within(landmarks, t).map((x) => x.i).sort((a, b) => a - b);
+  }
+  sameFrameCache.set(scene, s);
+  return s;
+}
+
+/** The entries of a time-sorted list within half a frame at 24 fps of t. */
+function within(sorted: readonly { t: number; i: number }[], t: number): { t: number; i: number }[] {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (sorted[mid]!.t < t - 2 * SAME_FRAME_S) lo = mid + 1;
+    else hi = mid;
+  }
+  const out: { t: number; i: number }[] = [];
+  for (let j = lo; j < sorted.length && sorted[j]!.t <= t + 2 * SAME_FRAME_S; j++) if (Math.abs(sorted[j]!.t - t) < SAME_FRAME_S) out.push(sorted[j]!);
+  return out;
 }
 
 /** The spans' angle uncertainties at the nominal draw, rad: sqrt(2) sigma of the length change, as an angle. */

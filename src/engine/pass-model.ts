@@ -74,11 +74,16 @@ export function spanAngleTrig(axis: AxisCode, L: number, cb: number, sb: number,
 
 /** sin of the aspect: the share of the axis square to the line of sight, |r x e| / R. */
 export function aspectSine(axis: AxisCode, beta: number, rx: number, ry: number, rz: number): number {
+  return aspectSineTrig(axis, Math.cos(beta), Math.sin(beta), rx, ry, rz);
+}
+
+/** aspectSine with cos and sin of the track's angle given, for loops over marks of one pass. */
+export function aspectSineTrig(axis: AxisCode, cb: number, sb: number, rx: number, ry: number, rz: number): number {
   const R2 = rx * rx + ry * ry + rz * rz;
   if (axis === Axis.SQUARE) return 1;
   let along: number;
-  if (axis === Axis.LENGTH) along = rx * Math.cos(beta) + ry * Math.sin(beta);
-  else if (axis === Axis.WINGSPAN) along = -rx * Math.sin(beta) + ry * Math.cos(beta);
+  if (axis === Axis.LENGTH) along = rx * cb + ry * sb;
+  else if (axis === Axis.WINGSPAN) along = -rx * sb + ry * cb;
   else along = rz;
   return Math.sqrt(Math.max(R2 - along * along, 0) / R2);
 }

@@ -2,11 +2,13 @@ import { MAX_SPEED_MS } from './constants';
 import { InputError, UndeterminedError } from './errors';
 import { drawValues, fillDraw, NOMINAL, randomPicker, spanSigmas, type PassScene } from './pass-inputs';
 import { FIT_REPORT, FIT_TOLERANCE, FitOutcome, fitPass, passData, Q, startFromSpans, toPhysical, type PassData } from './pass-fit';
-import { aspectSine, closestApproach, fixedPointFractionAt, P, PASS_PARAMS, relativePosition } from './pass-model';
+import { aspectSineTrig, closestApproach, fixedPointFractionAt, P, PASS_PARAMS, relativePosition } from './pass-model';
 import { Rng } from './rng';
-import { regimeShares, shareBelow, summarize, summarizeOrNull, unwrapAround, type Estimate } from './stats';
+import { finiteShare, regimeShares, shareBelow, summarize as summarizeAll, summarizeOrNull, unwrapAround, type Estimate } from './stats';
 import { checkHfov, checkOptions, checkSpan, type SolveOptions } from './uncertainty';
 import { band, inRange } from './validate';
+import { aggregate, binnedData, passBins, type PassBins } from './pass-bins';
+import { drawStore, type DrawStore } from './pass-draws';
 
 /*
  * The pass with its uncertainty: a parametric bootstrap through the pass fit (pass-fit.ts). The
@@ -160,8 +162,9 @@ function nominalFit(d: PassData, sgn: number, eps: number, beta: number, mask: n
   return bestChi2;
 }
 
-export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], options: SolveOptions = {}): PassResult {
-  const { draws, seed } = checkOptions(options, 2_000);
+/** `onDraw`, when given, hears how many bootstrap draws are done, of draws x directions (for a progress bar). */
+export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], options: SolveOptions = {}, onDraw?: (done: number) => void): PassResult {
+  const { draws, seed, tail } = checkOptions(options, 2_000);
   checkScene(scene);
   const n = scene.marks.length;
   const sig = spanSigmas(scene);
@@ -170,11 +173,15 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
   const v = drawValues(scene);
   fillDraw(scene, NOMINAL, sig, d, v);
   const mask = 0b111 | (v.hasElevation ? 1 << Q.eps : 0) | (v.hasAzimuth ? 1 << Q.beta : 0);
+  // thousands of frames: the fit runs on bins of consecutive frames (pass-bins.ts)
+  const bins = passBins(n);
+  const fit0 = bins ? binnedData(bins) : d;
+  if (bins) aggregate(d, bins, fit0);
   const elevationSources = Array.from(v.elevationSource, (s) => SOURCES[s]!);
 
   const starts = directions.map((sgn) => {
     const best = new Float64Array(PASS_PARAMS);
-    const chi2 = nominalFit(d, sgn, v.eps, v.beta, mask, best);
+    const chi2 = nominalFit(fit0, sgn, v.eps, v.beta, mask, best);
     return { sgn, best, chi2 };
   });
   const usable = starts.filter((s) => s.chi2 < Number.POSITIVE_INFINITY);
@@ -183,9 +190,11 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
   const residualCount = n + d.elev.filter((x) => x === x).length + d.azim.filter((x) => x === x).length;
 
   const hypotheses: PassHypothesis[] = [];
-  for (const s of usable) {
+  const store = drawStore(bins, usable.length, draws, scene.landmarks.length);
+  for (const [j, s] of usable.entries()) {
     const rng = new Rng(seed);
-    const h = bootstrap(scene, d, sig, s.sgn, s.best, mask, rng, draws);
+    const tick = onDraw ? (i: number) => onDraw(j * draws + i) : undefined;
+    const h = bootstrap(scene, d, sig, s.sgn, s.best, mask, rng, draws, tail, bins, store, tick);
     toPhysical(s.best, s.sgn, d.u, phys);
     const nominal = { params: Array.from(phys), u: d.u, tr: d.tr };
     hypotheses.push({ ...h, sign: s.sgn, nominalChi2: s.chi2, residuals: residualCount, ruledOut: s.chi2 - bestChi2 > 9, nominal });
@@ -196,10 +205,11 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
 
 type Figures = Omit<PassHypothesis, 'sign' | 'nominalChi2' | 'residuals' | 'ruledOut' | 'nominal'>;
 
-function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number): Figures {
+function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number, tail: number, bins: PassBins | null, store: DrawStore | null, tick?: (done: number) => void): Figures {
   const n = d0.n;
   const d = passData(n);
   d.tr = d0.tr;
+  const fd = bins ? binnedData(bins) : d;
   const v = drawValues(scene);
   const pick = randomPicker(rng);
   const col = () => new Float64Array(draws).fill(Number.NaN);
@@ -217,23 +227,31 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
   const fRoad = col();
   const wFirst = col();
   const wLast = col();
-  const R = new Float64Array(n * draws).fill(Number.NaN);
-  const Rh = new Float64Array(n * draws).fill(Number.NaN);
-  const el = new Float64Array(n * draws).fill(Number.NaN);
-  const asp = new Float64Array(n * draws).fill(Number.NaN);
-  const px = new Float64Array(n * draws).fill(Number.NaN);
-  const py = new Float64Array(n * draws).fill(Number.NaN);
+  // each kept draw's fitted pass and observer speed: every mark's figures follow from them after
+  // the loop, one mark at a time, so memory grows with the draws and not with marks x draws
+  const fitted = new Float64Array(PASS_PARAMS * draws);
+  const fittedU = col();
   const nl = scene.landmarks.length;
+  const landmarkMark = scene.landmarks.map((lm) => scene.marks.findIndex((m) => Math.abs(m.t - lm.t) < 1 / 48));
   const lmRange = new Float64Array(nl * draws).fill(Number.NaN);
   const lmRatio = new Float64Array(nl * draws).fill(Number.NaN);
   const lmSpeed = new Float64Array(nl * draws).fill(Number.NaN);
   let kept = 0;
   const nominalScale = d0.L * focalOf(scene);
+  // what a draw read back from the store does not fill
+  d.axis = scene.object.axis;
+  scene.marks.forEach((m, k) => (d.t[k] = m.t));
   for (let i = 0; i < draws; i++) {
-    fillDraw(scene, pick, sig, d, v);
-    for (let l = 0; l < nl; l++) lmRange[l * draws + i] = v.landmarkRange[l]!;
+    if (tick && i % 25 === 0) tick(i);
     let bad = false;
-    for (let k = 0; k < n; k++) if (!(d.theta[k]! > 0)) bad = true;
+    if (store?.has(i)) bad = store.load(i, d, v, fd);
+    else {
+      fillDraw(scene, pick, sig, d, v);
+      for (let k = 0; k < n; k++) if (!(d.theta[k]! > 0)) bad = true;
+      if (bins && !bad) aggregate(d, bins, fd);
+      store?.keep(i, bad, d, v, fd);
+    }
+    for (let l = 0; l < nl; l++) lmRange[l * draws + i] = v.landmarkRange[l]!;
     if (bad) continue;
     q.set(start);
     if (!(mask & (1 << Q.eps))) q[Q.eps] = v.eps;
@@ -243,7 +261,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     q[Q.lnRho]! += Math.log(scale);
     q[Q.lnV]! += Math.log(scale);
     q[Q.xr] = q[Q.xr]! * scale;
-    if (fitPass(d, q, sgn, mask, report, FIT_TOLERANCE.BOOTSTRAP) === FitOutcome.FAILED) continue;
+    if (fitPass(fd, q, sgn, mask, report, FIT_TOLERANCE.BOOTSTRAP) === FitOutcome.FAILED) continue;
     kept++;
     toPhysical(q, sgn, d.u, phys);
     const u = d.u;
@@ -259,18 +277,13 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     rhoS[i] = ca[1]!;
     rhoH[i] = ca[2]!;
     cls[i] = wi * cb < 0 ? 0 : wi * cb < u ? 1 : 2;
-    for (let k = 0; k < n; k++) {
+    fitted.set(phys, PASS_PARAMS * i);
+    fittedU[i] = u;
+    for (const k of [0, ref, n - 1]) {
       relativePosition(phys, u, d.tr, d.t[k]!, rel);
       const rx = rel[0]!;
       const ry = rel[1]!;
-      const rz = rel[2]!;
       const rh = Math.hypot(rx, ry);
-      R[k * draws + i] = Math.hypot(rh, rz);
-      Rh[k * draws + i] = rh;
-      el[k * draws + i] = Math.atan2(rz, rh);
-      asp[k * draws + i] = Math.asin(Math.min(1, aspectSine(d.axis, phys[P.beta]!, rx, ry, rz)));
-      px[k * draws + i] = rx;
-      py[k * draws + i] = ry;
       const s = fixedPointFractionAt(phys, u, rx, ry);
       if (k === ref) {
         frac[i] = s;
@@ -282,8 +295,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     }
     for (let l = 0; l < nl; l++) {
       const lm = scene.landmarks[l]!;
-      const k = scene.marks.findIndex((m) => Math.abs(m.t - lm.t) < 1 / 48);
-      if (k < 0) continue;
+      if (landmarkMark[l]! < 0) continue;
       relativePosition(phys, u, d.tr, lm.t, rel);
       const s = fixedPointFractionAt(phys, u, rel[0]!, rel[1]!);
       const rh = Math.hypot(rel[0]!, rel[1]!);
@@ -297,7 +309,9 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     }
   }
   if (kept === 0) throw new UndeterminedError('pass', 'no draw could be fitted');
-  const est = (a: Float64Array, from = 0, count = draws) => summarizeOrNull(a.subarray(from, from + count));
+  const kin = kinematics(fitted, fittedU, draws);
+  const est = (a: Float64Array, from = 0, count = draws) => summarizeOrNull(a.subarray(from, from + count), tail);
+  const summarize = (a: Float64Array) => summarizeAll(a, a.length, tail);
   const readings: PassReading[] = [];
   for (const c of [0, 1, 2] as const) {
     const idx: number[] = [];
@@ -327,15 +341,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     closestSlant: summarize(rhoS),
     closestHorizontal: summarize(rhoH),
     tClosest: summarize(t0),
-    marks: scene.marks.map((m, k) => ({
-      t: m.t,
-      range: est(R, k * draws)!,
-      horizontalRange: est(Rh, k * draws)!,
-      elevation: est(el, k * draws)!,
-      aspect: est(asp, k * draws)!,
-      x: est(px, k * draws)!,
-      y: est(py, k * draws)!,
-    })),
+    marks: scene.marks.map((m) => markFigures(m.t, d0.tr, d0.axis, kin, draws, tail)),
     readings,
     landmarks: scene.landmarks.map((lm, l) => ({
       id: lm.id,
@@ -346,6 +352,66 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
       impliedSpeed: est(lmSpeed, l * draws),
     })),
   };
+}
+
+const markCols = Array.from({ length: 6 }, () => new Float64Array(0));
+
+/** One mark's figures over the kept draws' fitted passes (NaN where a draw was not kept). */
+const KIN = 7;
+
+/**
+ * Each kept draw's motion as every mark's figures need it: relativePosition's and aspectSine's
+ * arithmetic with the trigonometry of the draw's pass done once, not once per mark (the same
+ * operations in the same order, so the same numbers).
+ */
+function kinematics(fitted: Float64Array, fittedU: Float64Array, draws: number): Float64Array {
+  const k = new Float64Array(draws * KIN).fill(Number.NaN);
+  for (let i = 0; i < draws; i++) {
+    const u = fittedU[i]!;
+    if (u !== u) continue;
+    const o = PASS_PARAMS * i;
+    const cb = Math.cos(fitted[o + P.beta]!);
+    const sb = Math.sin(fitted[o + P.beta]!);
+    const w = fitted[o + P.w]!;
+    const rho = fitted[o + P.rho]!;
+    const b = KIN * i;
+    k[b] = fitted[o + P.xr]!;
+    k[b + 1] = w * cb - u;
+    k[b + 2] = rho * Math.cos(fitted[o + P.eps]!);
+    k[b + 3] = w * sb;
+    k[b + 4] = rho * Math.sin(fitted[o + P.eps]!);
+    k[b + 5] = cb;
+    k[b + 6] = sb;
+  }
+  return k;
+}
+
+/** One mark's figures over the kept draws' fitted passes (NaN where a draw was not kept). */
+function markFigures(t: number, tr: number, axis: PassData['axis'], kin: Float64Array, draws: number, tail: number): PassMarkFigures {
+  if (markCols[0]!.length < draws) for (let c = 0; c < 6; c++) markCols[c] = new Float64Array(draws);
+  const [R, Rh, el, asp, px, py] = markCols as [Float64Array, Float64Array, Float64Array, Float64Array, Float64Array, Float64Array];
+  const tau = t - tr;
+  for (let i = 0; i < draws; i++) {
+    const b = KIN * i;
+    const x0 = kin[b]!;
+    if (x0 !== x0) {
+      R[i] = Rh[i] = el[i] = asp[i] = px[i] = py[i] = Number.NaN;
+      continue;
+    }
+    const rx = x0 + kin[b + 1]! * tau;
+    const ry = kin[b + 2]! + kin[b + 3]! * tau;
+    const rz = kin[b + 4]!;
+    const rh = Math.hypot(rx, ry);
+    R[i] = Math.hypot(rh, rz);
+    Rh[i] = rh;
+    el[i] = Math.atan2(rz, rh);
+    asp[i] = Math.asin(Math.min(1, aspectSineTrig(axis, kin[b + 5]!, kin[b + 6]!, rx, ry, rz)));
+    px[i] = rx;
+    py[i] = ry;
+  }
+  // the columns are scratch: summarized in place, without summarizeOrNull's copy
+  const est = (a: Float64Array) => (finiteShare(a, draws) > 0 ? summarizeAll(a, draws, tail) : null)!;
+  return { t, range: est(R), horizontalRange: est(Rh), elevation: est(el), aspect: est(asp), x: est(px), y: est(py) };
 }
 
 function focalOf(scene: PassScene): number {

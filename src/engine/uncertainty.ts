@@ -39,6 +39,12 @@ export type RegimeShares = { between: number; beyond: number; behind: number; no
 export interface SolveOptions {
   draws?: number;
   seed?: number;
+  /**
+   * The share cut from each end of every interval (default 0.05: the 5-95 % interval). A caller that
+   * runs fewer draws than usual passes stats.ts cautiousTail(draws), which widens the ends by their
+   * Monte Carlo uncertainty.
+   */
+  tail?: number;
 }
 
 const DEFAULT_DRAWS = 20_000;
@@ -119,12 +125,14 @@ export function fillRanges(size: Float64Array, sinA: Float64Array, halfTan: Floa
 
 export type Tuple<N extends number, T extends unknown[] = []> = T['length'] extends N ? T : Tuple<N, [...T, Float64Array]>;
 
-export function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: number; seed: number } {
+export function checkOptions(o: SolveOptions, defaultDraws = DEFAULT_DRAWS): { draws: number; seed: number; tail: number } {
   const draws = o.draws ?? defaultDraws;
   const seed = o.seed ?? DEFAULT_SEED;
+  const tail = o.tail ?? 0.05;
   integer('draws', draws, 100, 1_000_000);
   integer('seed', seed, 0, 0xffffffff);
-  return { draws, seed };
+  inRange('interval tail', tail, 0.001, 0.05);
+  return { draws, seed, tail };
 }
 
 export function checkHfov(b: Band): void {

@@ -3,6 +3,7 @@ import { overlayBench } from './overlay';
 import { caseBench } from './case';
 import { importBench } from './import';
 import { logBench } from './log';
+import { largeCaseBench } from './large-case';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -21,6 +22,7 @@ function print(rows: BenchRow[]): void {
 console.log(`engine benchmark on ${process.version}, ${(await import('node:os')).cpus().length} cores`);
 print(engineBench());
 caseBench();
+largeCaseBench();
 await importBench();
 
 await overlayBench();

@@ -1,0 +1,51 @@
+import { useEffect, useRef, useState } from 'preact/hooks';
+import type { CaseAnalysis } from '../../src/case/analysis';
+import type { CaseRecord } from '../../src/case/schema';
+import type { AnalysisReply } from './analysis-worker';
+
+/*
+ * A case's figures off the page's thread (analysis-worker.ts), with how far along they are. Each
+ * case view has a worker of its own. A newer version of the case (an assumption edited, a mark
+ * saved) ends the worker still busy with the older one and starts afresh: the older figures would be
+ * stale on arrival. An idle worker is kept for the next version.
+ */
+
+export interface AnalysisState {
+  r: CaseAnalysis | null;
+  progress: { done: number; total: number } | null;
+  error: string | null;
+}
+
+const STARTING: AnalysisState = { r: null, progress: { done: 0, total: 1 }, error: null };
+
+interface Slot {
+  worker: Worker | null;
+  busy: boolean;
+  id: number;
+}
+
+export function useAnalysis(c: CaseRecord): AnalysisState {
+  const [state, setState] = useState<AnalysisState>(STARTING);
+  const slot = useRef<Slot>({ worker: null, busy: false, id: 0 });
+  useEffect(() => () => slot.current.worker?.terminate(), []);
+  useEffect(() => {
+    const s = slot.current;
+    const id = ++s.id;
+    setState(STARTING);
+    if (s.worker && s.busy) {
+      s.worker.terminate();
+      s.worker = null;
+    }
+    if (!s.worker) s.worker = new Worker(new URL('./analysis-worker.ts', import.meta.url), { type: 'module' });
+    s.worker.onmessage = (e: MessageEvent<AnalysisReply>) => {
+      const m = e.data;
+      if (m.id !== s.id) return;
+      if (m.kind === 'progress') return setState({ r: null, progress: { done: m.done, total: m.total }, error: null });
+      s.busy = false;
+      setState(m.kind === 'result' ? { r: m.r, progress: null, error: null } : { r: null, progress: null, error: m.message });
+    };
+    s.busy = true;
+    s.worker.postMessage({ id, c });
+  }, [c]);
+  return state;
+}

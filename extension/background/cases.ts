@@ -153,7 +153,7 @@ export async function casePageOf(id: string): Promise<string | null> {
   const raw = (await browser.storage.local.get(key))[key];
   if (raw === undefined) return null;
   try {
-    return readCaseRecord(raw).video.pageUrl;
+    return readStoredCase(key, raw).video.pageUrl;
   } catch {
     return null;
   }

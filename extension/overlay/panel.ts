@@ -103,16 +103,16 @@ export function addMarkLayers(surface: HTMLDivElement): MarkLayers {
   return { layer, magnifier, magCanvas };
 }
 
-/* The keys that have no button of their own, with the message naming each (key-free row). */
+/* The keys that have no button of their own, with the words on the button standing in for each. */
 const KEY_BUTTONS: readonly { key: string; label: string }[] = [
-  { key: 'Tab', label: 'ovlKeyNextEnd' },
-  { key: 'ArrowLeft', label: 'ovlKeyLeft' },
-  { key: 'ArrowRight', label: 'ovlKeyRight' },
-  { key: 'ArrowUp', label: 'ovlKeyUp' },
-  { key: 'ArrowDown', label: 'ovlKeyDown' },
-  { key: 's', label: 'ovlKeySnap' },
-  { key: 'Delete', label: 'ovlKeyDelete' },
-  { key: 'Escape', label: 'ovlKeyCancel' },
+  { key: 'Tab', label: message('ovlKeyNextEnd') },
+  { key: 'ArrowLeft', label: message('ovlKeyLeft') },
+  { key: 'ArrowRight', label: message('ovlKeyRight') },
+  { key: 'ArrowUp', label: message('ovlKeyUp') },
+  { key: 'ArrowDown', label: message('ovlKeyDown') },
+  { key: 's', label: message('ovlKeySnap') },
+  { key: 'Delete', label: message('ovlKeyDelete') },
+  { key: 'Escape', label: message('ovlKeyCancel') },
 ];
 
 /**
@@ -123,7 +123,7 @@ export function addKeyButtons(panel: HTMLElement, before: Element): Map<string, 
   const row = h('div', { class: 'row keys', role: 'group', 'aria-label': message('ovlKeyButtonsLabel'), 'data-testid': 'key-buttons' });
   const buttons = new Map<string, HTMLButtonElement>();
   for (const { key, label } of KEY_BUTTONS) {
-    const b = h('button', { type: 'button', 'data-key': key }, message(label));
+    const b = h('button', { type: 'button', 'data-key': key }, label);
     row.append(b);
     buttons.set(key, b);
   }

@@ -4,6 +4,7 @@ import { gzipSync } from 'node:zlib';
 import type { Page } from 'playwright-core';
 import { callUpAsPopup, E2E_DIST, injectOverlay, launchWithExtension, tabIdFor, type Loaded } from '../e2e/harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
+import { inOverlayWorld, ovl } from '../../extension/tools/overlay-world';
 
 /*
  * The overlay part of `npm run bench`: what the injected file costs to ship, to call up and to drag
@@ -102,22 +103,21 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
     w.__benchInPage = NaN;
     w.__benchPainted = NaN;
     w.__benchFinished = NaN;
-    const finished = () => {
-      if (document.querySelector('clip-caliper-overlay')?.hasAttribute('data-ready')) w.__benchFinished = performance.now();
-      else setTimeout(finished, 1);
-    };
+    // the host is a plain div added to the root element, its root closed: the page's world sees its
+    // box only; when the session was ready is read from the extension's world afterwards (readyAt)
+    let host: Element | null = null;
     const laidOut = () => {
-      const panel = document.querySelector('clip-caliper-overlay')?.shadowRoot?.querySelector('.panel');
-      if (!panel) return false;
-      const r = panel.getBoundingClientRect();
+      if (!host) return false;
+      const r = host.getBoundingClientRect();
       return r.width > 0 && r.height > 0;
     };
     const poll = () => {
       if (laidOut()) w.__benchReady = performance.now();
       else requestAnimationFrame(poll);
     };
-    const mo = new MutationObserver(() => {
-      if (!document.querySelector('clip-caliper-overlay')) return;
+    const mo = new MutationObserver((records) => {
+      host = records.flatMap((r) => [...r.addedNodes]).find((n): n is Element => n.parentNode === document.documentElement && n.nodeName === 'DIV') ?? null;
+      if (!host) return;
       w.__benchInPage = performance.now();
       // the first frame after the host appeared: its animation-frame callbacks run as it starts,
       // and its style, layout and paint follow in the same update (a message posted from here
@@ -125,7 +125,6 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
       requestAnimationFrame(() => (w.__benchPainted = performance.now()));
       mo.disconnect();
       poll();
-      finished();
     });
     mo.observe(document.documentElement, { childList: true, subtree: true });
     w.__benchT0 = performance.now();
@@ -134,11 +133,17 @@ async function overlayInjectionMs(app: Loaded, server: TestServer, tag: string):
   await page.waitForFunction(
     () => {
       const w = window as unknown as BenchWindow;
-      return !Number.isNaN(w.__benchFinished) && !Number.isNaN(w.__benchPainted);
+      return !Number.isNaN(w.__benchPainted);
     },
     null,
     { timeout: 10_000 },
   );
+  for (const end = Date.now() + 10_000; !(await ovl(page).ready()); ) {
+    if (Date.now() > end) throw new Error('the overlay did not become ready');
+    await page.waitForTimeout(5);
+  }
+  const readyAt = await inOverlayWorld(page, (h) => h!.overlays()[0]!.readyAt);
+  await page.evaluate((t) => ((window as unknown as BenchWindow).__benchFinished = t), readyAt);
   const ms = await page.evaluate(() => {
     const w = window as unknown as BenchWindow;
     return { inPage: w.__benchInPage - w.__benchT0, drawn: w.__benchReady - w.__benchT0, painted: w.__benchPainted - w.__benchT0, finished: w.__benchFinished - w.__benchT0 };
@@ -236,10 +241,15 @@ interface LongTaskWindow {
  * clock ticks in 0.1 ms steps: per-move figures are good to that, which is fine against a 2 ms target.
  */
 async function drag(page: Page, from: { x: number; y: number }, to: { x: number; y: number }): Promise<DragFigures> {
-  return page.evaluate(
-    async ({ n, from, to }) => {
-      const pointerId = (window as unknown as LongTaskWindow).__benchPointerId;
-      const surface = document.querySelector('clip-caliper-overlay')!.shadowRoot!.querySelector('.surface')!;
+  const pointerId = await page.evaluate(() => (window as unknown as LongTaskWindow).__benchPointerId);
+  // run in the extension's world, where the test build's handle reaches the closed root and lets
+  // these dispatched moves count as input (extension/overlay/dom.ts inputPolicy)
+  return inOverlayWorld(
+    page,
+    async (h, { n, from, to, pointerId }) => {
+      h!.benchSynthetic(true);
+      const root = h!.overlays()[0]!.root;
+      const surface = root.querySelector('.surface')!;
       const afterRendering = () =>
         new Promise<number>((ok) => {
           const ch = new MessageChannel();
@@ -278,10 +288,11 @@ async function drag(page: Page, from: { x: number; y: number }, to: { x: number;
         redrawMs.push(after - before);
         renderMs.push((await afterRendering()) - after);
       }
-      const draftDrawn = !!document.querySelector('clip-caliper-overlay')!.shadowRoot!.querySelector('[data-mark=draft] line');
+      const draftDrawn = !!root.querySelector('[data-mark=draft] line');
+      h!.benchSynthetic(false);
       return { handleMs, redrawMs, renderMs, draftDrawn };
     },
-    { n: MOVES, from, to },
+    { n: MOVES, from, to, pointerId },
   );
 }
 
@@ -289,12 +300,8 @@ async function printPointerMoves(app: Loaded, server: TestServer): Promise<void>
   const page = await openVideoPage(app, server, '/plain.html?bench-drag');
   await page.bringToFront();
   await injectOverlay(app, page.url());
-  const readout = page.locator('clip-caliper-overlay [data-testid=readout]');
-  await page.waitForFunction(() => {
-    const r = document.querySelector('clip-caliper-overlay')?.shadowRoot?.querySelector('[data-testid=readout]');
-    return !!r?.textContent?.match(/\d+ marks? saved/);
-  });
-  await page.locator('clip-caliper-overlay .surface').focus();
+  await ovl(page).until('[data-testid=readout]', /\d+ marks? saved/);
+  await ovl(page).focus('.surface');
   await page.keyboard.press('1');
   const supported = await page.evaluate(() => {
     const w = window as unknown as LongTaskWindow;
@@ -319,11 +326,7 @@ async function printPointerMoves(app: Loaded, server: TestServer): Promise<void>
   const f = await drag(page, from, to);
   await page.mouse.move(to.x, to.y);
   await page.mouse.up();
-  await page.waitForFunction(() => {
-    const r = document.querySelector('clip-caliper-overlay')?.shadowRoot?.querySelector('[data-testid=readout]');
-    return !!r?.textContent?.includes('1 mark saved');
-  }, null, { timeout: 10_000 }).catch(() => undefined);
-  const saved = ((await readout.textContent()) ?? '').includes('1 mark saved');
+  const saved = await ovl(page).until('[data-testid=readout]', /1 mark saved/).then(() => true, () => false);
   const longTasks = await page.evaluate(() => {
     const w = window as unknown as LongTaskWindow;
     for (const e of w.__benchLongTaskObserver?.takeRecords() ?? []) w.__benchLongTasks.push(e.duration);

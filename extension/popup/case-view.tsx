@@ -223,6 +223,8 @@ function exportCase(c: CaseRecord): void {
 /** Copy the summary anyone can recompute: plain text or Markdown, with a preview of what is copied. */
 function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitSystem }) {
   const [status, setStatus] = useState('');
+  // built only once opened: for a case at the mark limit the text alone took a second to build
+  const [previewing, setPreviewing] = useState(false);
   const text = (format: SummaryFormat) => summaryText(c, r, { format, system, toolVersion: extensionVersion() });
   const copy = (format: SummaryFormat) =>
     navigator.clipboard.writeText(text(format)).then(
@@ -244,9 +246,9 @@ function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitS
         {' '}
         {status}
       </span>
-      <details>
+      <details onToggle={(e) => setPreviewing((e.currentTarget as HTMLDetailsElement).open)}>
         <summary>{message('casePreview')}</summary>
-        <pre data-testid="summary-preview">{text('text')}</pre>
+        <pre data-testid="summary-preview">{previewing ? text('text') : ''}</pre>
       </details>
     </section>
   );

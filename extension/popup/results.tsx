@@ -1,4 +1,4 @@
-import { useMemo } from 'preact/hooks';
+import { useMemo, useState } from 'preact/hooks';
 import type { CaseAnalysis, CaseWarning, SpeedReading } from '../../src/case/analysis';
 import { rangePlot } from '../../src/case/plots';
 import type { PassReading } from '../../src/engine/pass-series';
@@ -77,15 +77,25 @@ function Warnings({ r }: { r: CaseAnalysis }) {
   );
 }
 
+/*
+ * A case at the mark limit has thousands of frames: drawing a row for each at once held the popup's
+ * main thread for 2.6 s (test/e2e/popup-large.test.ts, 4 444 frames). The first rows are drawn,
+ * the rest a batch at a time when asked; the range plot shows them all.
+ */
+const FIRST_ROWS = 60;
+const MORE_ROWS = 200;
+
 export function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
   const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, system);
   const plot = useMemo(() => rangePlot(r), [r]);
+  const [rows, setRows] = useState(FIRST_ROWS);
+  const left = r.timestamps.length - rows;
   return (
     <section aria-label={message('caseResultsLabel')} data-testid="results">
       <h2>{message('caseFiguresHeading')}</h2>
       <Warnings r={r} />
       {r.timestamps.length === 0 && <p class="muted">{message('caseMarkToSee')}</p>}
-      {r.timestamps.map((ts) => (
+      {r.timestamps.slice(0, rows).map((ts) => (
         <div class="result" data-testid="timestamp">
           <div class="stamp">{stamp(ts.t)}</div>
           <div>{message('caseSpan', [ts.spanPx.toFixed(1), est(ts.result.angularSize, 'angle')])}</div>
@@ -125,6 +135,11 @@ export function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) 
           )}
         </div>
       ))}
+      {left > 0 && (
+        <button type="button" class="secondary" data-testid="more-frames" onClick={() => setRows(rows + MORE_ROWS)}>
+          {message('caseMoreFrames', [String(Math.min(MORE_ROWS, left)), String(left)])}
+        </button>
+      )}
       {plot && <RangePlotView p={plot} system={system} />}
       <PlanViewSvg r={r} system={system} />
       {r.series ? (

@@ -16,6 +16,24 @@ export interface RangePlot {
   description: string;
 }
 
+/*
+ * A case at the mark limit has thousands of frames: an SVG element for each held the popup's main
+ * thread for over a second (test/e2e/popup-large.test.ts). The plots draw at most this many,
+ * evenly spaced, the first and the last always among them; the descriptions say so. No figure is
+ * computed from the thinned list.
+ */
+export const MAX_DRAWN = 150;
+
+/** At most `max` of `xs`, evenly spaced by index, keeping the first and the last; `xs` itself when short enough. */
+export function thinEvenly<T>(xs: readonly T[], max: number = MAX_DRAWN): T[] {
+  if (xs.length <= max) return [...xs];
+  const out: T[] = [];
+  for (let i = 0; i < max; i++) out.push(xs[Math.round((i * (xs.length - 1)) / (max - 1))]!);
+  return out;
+}
+
+const drawnNote = (all: number, drawn: number) => (drawn < all ? ` (${drawn} of them drawn, evenly spaced)` : '');
+
 export function rangePlot(a: CaseAnalysis, samples = 60): RangePlot | null {
   if (!a.series || a.timestamps.length < 3) return null;
   // the pass's ranges where it has them: a frame alone takes one aspect for every frame
@@ -42,9 +60,9 @@ export function rangePlot(a: CaseAnalysis, samples = 60): RangePlot | null {
   return {
     t: { min: tMin, max: tMax, ticks: tTicks.ticks },
     range: { min: rTicks.min, max: rTicks.max, ticks: rTicks.ticks },
-    points: pts,
+    points: thinEvenly(pts),
     curve,
-    description: `Range at ${pts.length} timestamps from ${t1.toFixed(2)} s to ${t2.toFixed(2)} s, each with its 5-95 % interval, and the fitted straight pass (closest at ${t0.toFixed(2)} s).`,
+    description: `Range at ${pts.length} timestamps${drawnNote(pts.length, Math.min(pts.length, MAX_DRAWN))} from ${t1.toFixed(2)} s to ${t2.toFixed(2)} s, each with its 5-95 % interval, and the fitted straight pass (closest at ${t0.toFixed(2)} s).`,
   };
 }
 
@@ -152,12 +170,12 @@ export function planView(a: CaseAnalysis, direction?: PlanView['direction']): Pl
     trackDistance: D,
     observerSpeed: uM,
     objectSpeed: reading.alongRoad.median,
-    sightLines,
+    sightLines: thinEvenly(sightLines),
     fixedPoint,
     trackBand: { lo: refMark.y.p05, hi: refMark.y.p95 },
     bounds: { xMin: Math.min(...xs) - pad, xMax: Math.max(...xs) + pad, yMin: Math.min(...ys) - pad, yMax: Math.max(refMark.y.p95, ...ys) + pad },
     mode: 'pass',
-    description: `Plan view to scale: the observer's road; the object's track, ${D.toFixed(0)} m from the road (horizontal, square to the road) at ${refMark.t.toFixed(2)} s; ${sightLines.length} sight lines. Reading the object as flying ${reading.direction.replace('-', ' and ')}, the motionless point lies ${where}${fixedPoint && regime !== 'behind' ? `, ${fixedPoint.fromRoad.toFixed(0)} m from the road` : regime === 'behind' && fp ? `, ${Math.abs(fp.horizontalDistance.median).toFixed(0)} m behind the camera along the sight line` : ''}.`,
+    description: `Plan view to scale: the observer's road; the object's track, ${D.toFixed(0)} m from the road (horizontal, square to the road) at ${refMark.t.toFixed(2)} s; ${sightLines.length} sight lines${drawnNote(sightLines.length, Math.min(sightLines.length, MAX_DRAWN))}. Reading the object as flying ${reading.direction.replace('-', ' and ')}, the motionless point lies ${where}${fixedPoint && regime !== 'behind' ? `, ${fixedPoint.fromRoad.toFixed(0)} m from the road` : regime === 'behind' && fp ? `, ${Math.abs(fp.horizontalDistance.median).toFixed(0)} m behind the camera along the sight line` : ''}.`,
   };
 }
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { niceTicks, planView, rangePlot } from '../../src/case/plots';
+import { niceTicks, planView, rangePlot, thinEvenly } from '../../src/case/plots';
 import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
 import { inventedPassCase } from './invented-pass';
 
@@ -114,5 +114,19 @@ describe('plan view model', () => {
   it('needs the fit or a pinned landmark, and the observer speed', () => {
     expect(planView({ ...a, series: null, timestamps: [] } as unknown as CaseAnalysis)).toBeNull();
     expect(planView({ ...a, assumptions: { observerSpeed: null } } as unknown as CaseAnalysis)).toBeNull();
+  });
+});
+
+describe('thinning what the plots draw (a case at the mark limit)', () => {
+  it('keeps short lists whole, and long ones evenly spaced with both ends', () => {
+    const xs = Array.from({ length: 4444 }, (_, i) => i);
+    expect(thinEvenly(xs.slice(0, 10), 150)).toEqual(xs.slice(0, 10));
+    const t = thinEvenly(xs, 150);
+    expect(t).toHaveLength(150);
+    expect(t[0]).toBe(0);
+    expect(t[149]).toBe(4443);
+    // even spacing (common practice for decimating a series for display): steps differ by at most one
+    const steps = t.slice(1).map((x, i) => x - t[i]!);
+    expect(Math.max(...steps) - Math.min(...steps)).toBeLessThanOrEqual(1);
   });
 });

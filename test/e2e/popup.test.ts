@@ -15,6 +15,13 @@ import { startServer, type TestServer } from '../../extension/tools/static-serve
  * (test/fixtures, an invented scene).
  */
 const truth = JSON.parse(readFileSync('test/fixtures/clips/pass-tracked.truth.json', 'utf8'));
+
+/** Opens the summary's preview, which is built only once opened (case-view.tsx Share). */
+async function openPreview(view: import('playwright-core').Page): Promise<void> {
+  await view.locator('details:has([data-testid=summary-preview]) > summary').click();
+  await expect.poll(async () => ((await view.getByTestId('summary-preview').textContent()) ?? '').length).toBeGreaterThan(0);
+}
+
 let app: Loaded;
 let server: TestServer;
 beforeAll(async () => {
@@ -154,6 +161,7 @@ describe('the popup view of a measured case', () => {
     await view.getByTestId('copy-text').click();
     await expect.poll(() => view.getByTestId('copy-status').textContent()).toContain('copied as plain text');
     const clip = await readClipboard();
+    await openPreview(view);
     expect(clip).toBe(await view.getByTestId('summary-preview').textContent());
     expect(clip).toContain('Never operate this tool, or film, while driving.');
     expect(clip).toContain('5-95 %');
@@ -465,6 +473,7 @@ describe('the popup view of a measured case', () => {
     const file = join(mkdtempSync(join(tmpdir(), 'clip-caliper-export-')), download.suggestedFilename());
     await download.saveAs(file);
     const { stdout } = await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', file, '--units', 'metric']);
+    await openPreview(view);
     expect(stdout).toBe(await view.getByTestId('summary-preview').textContent());
     // and --json gives every result with its interval
     const json = JSON.parse((await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', file, '--json'])).stdout);

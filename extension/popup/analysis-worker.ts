@@ -1,5 +1,6 @@
 /// <reference lib="webworker" />
-import { analyseCase, type CaseAnalysis } from '../../src/case/analysis';
+import { analyseCase } from '../../src/case/analysis';
+import { pageFigures, type PageFigures } from '../../src/case/page-analysis';
 import type { CaseRecord } from '../../src/case/schema';
 
 /*
@@ -12,7 +13,7 @@ import type { CaseRecord } from '../../src/case/schema';
 export type AnalysisRequest = { id: number; c: CaseRecord };
 export type AnalysisReply =
   | { id: number; kind: 'progress'; done: number; total: number }
-  | { id: number; kind: 'result'; r: CaseAnalysis }
+  | { id: number; kind: 'result'; f: PageFigures }
   | { id: number; kind: 'error'; message: string };
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -30,7 +31,8 @@ scope.onmessage = (e: MessageEvent<AnalysisRequest>) => {
         post({ id, kind: 'progress', done, total });
       },
     });
-    post({ id, kind: 'result', r });
+    // the page's share only (page-analysis.ts): taking in the whole held the page's thread
+    post({ id, kind: 'result', f: pageFigures(r) });
   } catch (err) {
     post({ id, kind: 'error', message: (err as Error).message });
   }

@@ -279,7 +279,8 @@ function Computing({ progress, error }: Pick<AnalysisState, 'progress' | 'error'
 export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
   const a = c.assumptions ?? defaultAssumptions();
   // the figures come from a worker; what the assumptions section needs is cheap and drawn at once
-  const { r, progress, error } = useAnalysis(c);
+  const { f, progress, error } = useAnalysis(c);
+  const r = f?.r ?? null;
   const given = useMemo(() => engineAssumptions(c.assumptions, c.marks), [c]);
   const [saveError, setSaveError] = useState<string | null>(null);
   const save = (next: CaseAssumptions) => {
@@ -357,7 +358,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
       </section>
       {r ? (
         <>
-          <Results r={r} system={system} />
+          <Results f={f!} system={system} />
           <Share c={c} r={r} system={system} />
         </>
       ) : (

@@ -1,6 +1,6 @@
-import { useMemo, useState } from 'preact/hooks';
-import type { CaseAnalysis } from '../../src/case/analysis';
-import { planView, type PlanView } from '../../src/case/plots';
+import { useState } from 'preact/hooks';
+import { planFor, type PageFigures } from '../../src/case/page-analysis';
+import type { PlanView } from '../../src/case/plots';
 import { formatQuantity, type UnitSystem } from '../../src/engine/units';
 import { message } from '../shared/browser';
 import { savePicture } from './save-picture';
@@ -18,12 +18,13 @@ const LABELS: Record<PlanView['direction'], string> = {
  * The ground from above, to scale (one factor for both axes): the observer's road, the object's
  * track, a sight line per timestamp, and the motionless point they all pass through.
  */
-export function PlanViewSvg({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
+export function PlanViewSvg({ f, system }: { f: PageFigures; system: UnitSystem }) {
+  const { r } = f;
   // the pass's readings the marks and the direction assumed leave open (analysis.ts), in its order
   const readings = [...new Set(r.readings.filter((x) => x.pass).map((x) => x.pass!.direction))];
   const [chosen, setDirection] = useState<PlanView['direction'] | undefined>(undefined);
   const direction = chosen && readings.includes(chosen) ? chosen : readings[0];
-  const p = useMemo(() => planView(r, direction), [r, direction]);
+  const p = planFor(f, direction);
   // a fit none of whose readings fits the direction assumed: no picture to draw that agrees with it
   if (!p || (r.series && p.mode === 'pass' && readings.length === 0)) return null;
   const b = p.bounds;

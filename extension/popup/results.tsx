@@ -1,6 +1,6 @@
-import { useMemo, useState } from 'preact/hooks';
+import { useState } from 'preact/hooks';
 import type { CaseAnalysis, CaseWarning, SpeedReading } from '../../src/case/analysis';
-import { rangePlot } from '../../src/case/plots';
+import type { PageFigures } from '../../src/case/page-analysis';
 import type { PassReading } from '../../src/engine/pass-series';
 import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
 import type { Estimate } from '../../src/engine/stats';
@@ -85,9 +85,9 @@ function Warnings({ r }: { r: CaseAnalysis }) {
 const FIRST_ROWS = 60;
 const MORE_ROWS = 200;
 
-export function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) {
+export function Results({ f, system }: { f: PageFigures; system: UnitSystem }) {
+  const { r, rangePlot: plot } = f;
   const est = (e: Estimate, kind: Quantity) => formatEstimate(e, kind, system);
-  const plot = useMemo(() => rangePlot(r), [r]);
   const [rows, setRows] = useState(FIRST_ROWS);
   const left = r.timestamps.length - rows;
   return (
@@ -141,7 +141,7 @@ export function Results({ r, system }: { r: CaseAnalysis; system: UnitSystem }) 
         </button>
       )}
       {plot && <RangePlotView p={plot} system={system} />}
-      <PlanViewSvg r={r} system={system} />
+      <PlanViewSvg f={f} system={system} />
       {r.series ? (
         <div class="result" data-testid="series">
           <div class="stamp">{message('casePassHeading')}</div>

@@ -1,5 +1,5 @@
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { CaseAnalysis } from '../../src/case/analysis';
+import type { PageFigures } from '../../src/case/page-analysis';
 import type { CaseRecord } from '../../src/case/schema';
 import type { AnalysisReply } from './analysis-worker';
 
@@ -11,12 +11,13 @@ import type { AnalysisReply } from './analysis-worker';
  */
 
 export interface AnalysisState {
-  r: CaseAnalysis | null;
+  /** The figures as a page gets them (page-analysis.ts): the case's analysis and its plots. */
+  f: PageFigures | null;
   progress: { done: number; total: number } | null;
   error: string | null;
 }
 
-const STARTING: AnalysisState = { r: null, progress: { done: 0, total: 1 }, error: null };
+const STARTING: AnalysisState = { f: null, progress: { done: 0, total: 1 }, error: null };
 
 interface Slot {
   worker: Worker | null;
@@ -40,10 +41,24 @@ export function useAnalysis(c: CaseRecord): AnalysisState {
     s.worker.onmessage = (e: MessageEvent<AnalysisReply>) => {
       const m = e.data;
       if (m.id !== s.id) return;
-      if (m.kind === 'progress') return setState({ r: null, progress: { done: m.done, total: m.total }, error: null });
+      if (m.kind === 'progress') return setState({ f: null, progress: { done: m.done, total: m.total }, error: null });
       s.busy = false;
-      setState(m.kind === 'result' ? { r: m.r, progress: null, error: null } : { r: null, progress: null, error: m.message });
+      setState(m.kind === 'result' ? { f: m.f, progress: null, error: null } : { f: null, progress: null, error: m.message });
     };
+    // a worker that fails to start, throws outside its own guard or sends what cannot be read would
+    // leave the page saying "computing" for ever: say so instead, and start a fresh one next time
+    const failed = (why: string) => {
+      if (s.id !== id) return;
+      s.worker?.terminate();
+      s.worker = null;
+      s.busy = false;
+      setState({ f: null, progress: null, error: why });
+    };
+    s.worker.onerror = (e: ErrorEvent) => {
+      e.preventDefault();
+      failed(e.message || 'the figures could not be computed');
+    };
+    s.worker.onmessageerror = () => failed('the figures could not be read back from their worker');
     s.busy = true;
     s.worker.postMessage({ id, c });
   }, [c]);

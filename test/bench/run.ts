@@ -4,6 +4,7 @@ import { caseBench } from './case';
 import { importBench } from './import';
 import { logBench } from './log';
 import { largeCaseBench } from './large-case';
+import { popupLargeBench } from './popup-large';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -27,3 +28,4 @@ await importBench();
 
 await overlayBench();
 await logBench();
+await popupLargeBench();

@@ -41,39 +41,6 @@ import { finite, integer } from './validate';
 export type Quantity = 'speed' | 'distance' | 'length' | 'angle' | 'time';
 export type UnitSystem = 'metric' | 'imperial' | 'aviation';
 
-// mathjs types its dependency maps as Record lookups, hence possibly undefined under
-// noUncheckedIndexedAccess; each one exists at run time (a missing one would throw right here).
-const math = create({
-  parseDependencies,
-  unitDependencies,
-  createUnitDependencies,
-  addDependencies,
-  subtractDependencies,
-  multiplyDependencies,
-  divideDependencies,
-  unaryMinusDependencies,
-  unaryPlusDependencies,
-  powDependencies,
-} as FactoryFunctionMap);
-
-/*
- * mathjs 15 knows neither the knot nor the nautical mile, and reads `kt` as kilo-tonne (prefix k on
- * the tonne). We define them exactly (NIST SP 811 (2008) App. B.8: 1 kn = 1852/3600 m/s, 1 NM = 1852 m)
- * under every spelling people use; an exact unit name is matched before prefix + unit, so `kt` now
- * means the knot. `override` removes any earlier unit of the same name. Lower-case `nm` stays the
- * nanometre: the nautical mile is `NM` or `nmi`. mathjs has no `mph` either (only mi/h), so it is
- * added from the same table (1 mph = 0.44704 m/s). The foot and mile are mathjs's own (0.3048 m,
- * 1609.344 m), checked in the tests.
- */
-math.createUnit(
-  {
-    kn: { definition: new math.Unit(KNOT_MS, 'm/s'), aliases: ['kt', 'kts', 'knot', 'knots'] },
-    NM: { definition: new math.Unit(NAUTICAL_MILE_M, 'm'), aliases: ['nmi'] },
-    mph: { definition: new math.Unit(MPH_MS, 'm/s') },
-  },
-  { override: true },
-);
-
 interface KindInfo {
   si: string;
   example: string;
@@ -90,13 +57,56 @@ const KINDS: Record<Quantity, KindInfo> = {
   time: { si: 's', example: 'a time such as 12.5 s, 2 min or 1:30', max: MAX_TIME_S, signed: false },
 };
 
-const REFERENCE: Record<Quantity, Unit> = {
-  speed: math.unit(KINDS.speed.si),
-  distance: math.unit(KINDS.distance.si),
-  length: math.unit(KINDS.length.si),
-  angle: math.unit(KINDS.angle.si),
-  time: math.unit(KINDS.time.si),
-};
+/*
+ * The mathjs instance is made on the first entry parsed, not when this module loads: making it
+ * builds every typed function it holds, a quarter of a second of a page's thread on this machine,
+ * and a page that only shows figures (formatting needs no mathjs) would pay it for nothing.
+ */
+let made: { math: ReturnType<typeof create>; reference: Record<Quantity, Unit> } | null = null;
+
+function mathjs(): { math: ReturnType<typeof create>; reference: Record<Quantity, Unit> } {
+  if (made) return made;
+  // mathjs types its dependency maps as Record lookups, hence possibly undefined under
+  // noUncheckedIndexedAccess; each one exists at run time (a missing one would throw right here).
+  const math = create({
+    parseDependencies,
+    unitDependencies,
+    createUnitDependencies,
+    addDependencies,
+    subtractDependencies,
+    multiplyDependencies,
+    divideDependencies,
+    unaryMinusDependencies,
+    unaryPlusDependencies,
+    powDependencies,
+  } as FactoryFunctionMap);
+  /*
+   * mathjs 15 knows neither the knot nor the nautical mile, and reads `kt` as kilo-tonne (prefix k on
+   * the tonne). We define them exactly (NIST SP 811 (2008) App. B.8: 1 kn = 1852/3600 m/s, 1 NM = 1852 m)
+   * under every spelling people use; an exact unit name is matched before prefix + unit, so `kt` now
+   * means the knot. `override` removes any earlier unit of the same name. Lower-case `nm` stays the
+   * nanometre: the nautical mile is `NM` or `nmi`. mathjs has no `mph` either (only mi/h), so it is
+   * added from the same table (1 mph = 0.44704 m/s). The foot and mile are mathjs's own (0.3048 m,
+   * 1609.344 m), checked in the tests.
+   */
+  math.createUnit(
+    {
+      kn: { definition: new math.Unit(KNOT_MS, 'm/s'), aliases: ['kt', 'kts', 'knot', 'knots'] },
+      NM: { definition: new math.Unit(NAUTICAL_MILE_M, 'm'), aliases: ['nmi'] },
+      mph: { definition: new math.Unit(MPH_MS, 'm/s') },
+    },
+    { override: true },
+  );
+  const reference: Record<Quantity, Unit> = {
+    speed: math.unit(KINDS.speed.si),
+    distance: math.unit(KINDS.distance.si),
+    length: math.unit(KINDS.length.si),
+    angle: math.unit(KINDS.angle.si),
+    time: math.unit(KINDS.time.si),
+  };
+  made = { math, reference };
+  return made;
+}
 
 const ALLOWED_OPERATORS = new Set(['add', 'subtract', 'multiply', 'divide', 'unaryMinus', 'unaryPlus', 'pow']);
 const MAX_TEXT = 200;
@@ -127,6 +137,7 @@ function walk(node: MathNode): number | Unit {
       return walk((node as unknown as { content: MathNode }).content);
     case 'SymbolNode': {
       const name = (node as unknown as { name: string }).name;
+      const { math } = mathjs();
       if (!math.Unit.isValuelessUnit(name)) throw new NotArithmetic(`"${name}" is not a unit`);
       return math.unit(name);
     }
@@ -135,6 +146,7 @@ function walk(node: MathNode): number | Unit {
       if (!ALLOWED_OPERATORS.has(op.fn)) throw new NotArithmetic(`the operator "${op.op}" is not allowed`);
       const args = op.args.map(walk);
       if (op.fn === 'pow' && typeof args[1] !== 'number') throw new NotArithmetic('an exponent must be a plain number');
+      const { math } = mathjs();
       const f = (math as unknown as Record<string, (...a: (number | Unit)[]) => unknown>)[op.fn]!;
       const r = f(...args);
       if (typeof r !== 'number' && !math.isUnit(r)) throw new NotArithmetic('the result is not a real number');
@@ -185,7 +197,7 @@ export function parseQuantity(text: string, kind: Quantity, field: string, defau
   }
   let result: number | Unit;
   try {
-    result = walk(math.parse(normalise(text)));
+    result = walk(mathjs().math.parse(normalise(text)));
   } catch (e) {
     const why = e instanceof NotArithmetic ? e.message : 'not understood';
     throw new InputError(field, text, `${info.example} (${why})`);
@@ -195,7 +207,7 @@ export function parseQuantity(text: string, kind: Quantity, field: string, defau
     return bounded(result * unitFactor(defaultUnit, kind, 'default unit'), info, field, text);
   }
   if (result.value === null) throw new InputError(field, text, `${info.example}: a number is needed`);
-  if (!result.equalBase(REFERENCE[kind])) throw new InputError(field, text, `${info.example}: wrong kind of unit`);
+  if (!result.equalBase(mathjs().reference[kind])) throw new InputError(field, text, `${info.example}: wrong kind of unit`);
   return bounded(result.toNumber(info.si), info, field, text);
 }
 
@@ -205,11 +217,11 @@ function unitFactor(unit: string, kind: Quantity, field: string): number {
   let u: Unit;
   try {
     if (typeof unit !== 'string' || unit.length > MAX_TEXT) throw new Error('not text');
-    u = math.unit(normalise(unit).trim());
+    u = mathjs().math.unit(normalise(unit).trim());
   } catch {
     throw new InputError(field, unit, `a unit of ${kind}, e.g. ${info.example}`);
   }
-  if (u.value !== null || !u.equalBase(REFERENCE[kind])) {
+  if (u.value !== null || !u.equalBase(mathjs().reference[kind])) {
     throw new InputError(field, unit, `a unit of ${kind} without a number, e.g. ${info.example}`);
   }
   return u.toNumber(info.si);

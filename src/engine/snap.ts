@@ -1,5 +1,6 @@
 import { InputError } from './errors';
 import { checkGray, lumaAt, noiseSigma, NOISE_RADIUS_MAX_PX, type Gray } from './gray';
+import { clampIndex, largestPeak, medianInPlace, nearestPeak } from './peaks';
 import { centroidCoefficients, spreadCoefficients, windowCentroid, windowSpread } from './snap-moments';
 import { finite, inRange } from './validate';
 
@@ -221,7 +222,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     let j: number;
     if (nearest) {
       const spHere = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, track, n, 1, true));
-      j = nearestPeak(g, b, jLo, jHi, track, wantSign, Math.max(DETECT_Z * spHere, MIN_RELATIVE_GRADIENT * level));
+      j = nearestPeak(g, b, jLo, jHi, track, wantSign, Math.max(DETECT_Z * spHere, MIN_RELATIVE_GRADIENT * level), NEAREST_MIN_SHARE);
       // a wider scale that finds it elsewhere has merged it with a neighbour
       if (j >= 0 && best >= 0 && Math.abs(j - track) * h > 1 + TRACK_SCALES * SCALES_PX[sc]!) j = -1;
     } else {
@@ -334,42 +335,6 @@ function smoothAndDifference(sc: number, n: number, out: Float64Array): void {
   for (let j = 1; j < n - 1; j++) out[j] = (smooth[j + 1]! - smooth[j - 1]!) / (2 * STEP_PX);
 }
 
-/** Whether sample j is a strict local maximum of |g - base| of the wanted sign (0: either). */
-function isPeak(g: Float64Array, base: number, j: number, sign: number): boolean {
-  const v = g[j]! - base;
-  const a = Math.abs(v);
-  return a > 0 && (sign === 0 || sign * v > 0) && a >= Math.abs(g[j - 1]! - base) && a > Math.abs(g[j + 1]! - base);
-}
-
-/** Index of the largest strict local maximum of |g - base| in [jLo, jHi] (of the sign, if one), or -1. */
-function largestPeak(g: Float64Array, base: number, jLo: number, jHi: number, sign: number): number {
-  let best = -1;
-  let peak = 0;
-  for (let j = jLo; j <= jHi; j++) {
-    const a = Math.abs(g[j]! - base);
-    if (a > peak && isPeak(g, base, j, sign)) {
-      peak = a;
-      best = j;
-    }
-  }
-  return best;
-}
-
-/**
- * Index of the local maximum of |g - base| in [jLo, jHi] nearest jRef that reaches the threshold
- * and NEAREST_MIN_SHARE of the largest there (of the sign, if one), or -1.
- */
-function nearestPeak(g: Float64Array, base: number, jLo: number, jHi: number, jRef: number, sign: number, threshold: number): number {
-  const top = largestPeak(g, base, jLo, jHi, sign);
-  if (top < 0) return -1;
-  const need = Math.max(threshold, NEAREST_MIN_SHARE * Math.abs(g[top]! - base));
-  let best = -1;
-  for (let j = jLo; j <= jHi; j++) {
-    if (Math.abs(g[j]! - base) >= need && isPeak(g, base, j, sign) && (best < 0 || Math.abs(j - jRef) < Math.abs(best - jRef))) best = j;
-  }
-  return best;
-}
-
 let centroidMass = 0;
 
 /**
@@ -449,10 +414,6 @@ function gradientCoefficients(sc: number, j: number, n: number, w: number, fresh
   return coef;
 }
 
-function clampIndex(j: number, n: number): number {
-  return j < 0 ? 0 : j >= n ? n - 1 : j;
-}
-
 /**
  * Root of the sum of squared pixel weights of a linear functional of the profile (coefficients c on
  * its samples): multiplied by the pixel noise sigma it gives the functional's noise sigma.
@@ -498,10 +459,4 @@ function functionalNorm(img: Gray, x: number, y: number, dx: number, dy: number,
 function addWeight(i: number, j: number, w: number, side: number): void {
   // clamping to the image can only move a pixel toward the grid's interior, never out of it
   if (i >= 0 && i < side && j >= 0 && j < side) grid[j * side + i]! += w;
-}
-
-function medianInPlace(a: Float64Array, m: number): number {
-  const v = a.subarray(0, m).sort();
-  const h = m >> 1;
-  return m % 2 === 1 ? v[h]! : 0.5 * (v[h - 1]! + v[h]!);
 }

@@ -1,24 +1,6 @@
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { browser, extensionVersion, message } from '../shared/browser';
-import {
-  annotateCase,
-  casesForPage,
-  deleteCase,
-  deleteMark,
-  exportCases,
-  importCases,
-  listCases,
-  openCase,
-  putMark,
-  readCase,
-  requestSeek,
-  setAssumptions,
-  storageUsage,
-  takeSeek,
-  undeleteCase,
-  listDeleted,
-  casePageOf,
-} from './cases';
+import { store } from './cases';
 import { injectOverlay, type CallUpOptions } from '../shared/call-up';
 import { foreignFrameOrigins, injectIntoOrigin } from './inject';
 import { routeMessages, type Guard } from './router';
@@ -34,7 +16,7 @@ const guard: Guard = async (type, payload, sender) => {
   const facts: SenderFacts = { url: sender.url, tabId: sender.tab?.id, tabActive: sender.tab?.active };
   const origin = browser.runtime.getURL('');
   const caseId = needsCasePage(type, facts, origin, payload);
-  const casePage = caseId === null ? undefined : await casePageOf(caseId);
+  const casePage = caseId === null ? undefined : await store.casePageOf(caseId);
   const verdict = judge(type, payload, facts, origin, casePage);
   return verdict.allow ? null : refusal(type, verdict.reason);
 };
@@ -42,12 +24,12 @@ const guard: Guard = async (type, payload, sender) => {
 browser.runtime.onMessage.addListener(
   routeMessages({
     'status/get': async () => ({ version: extensionVersion(), schema: SCHEMA_VERSION, startedAt: STARTED_AT }),
-    'case/open': async ({ caseId, video }) => openCase(caseId, video, extensionVersion()),
-    'case/get': async ({ caseId }) => readCase(caseId),
-    'cases/forPage': async ({ pageUrl }) => casesForPage(pageUrl),
-    'mark/put': async ({ caseId, mark }) => putMark(caseId, mark),
-    'mark/remove': async ({ caseId, markId }) => deleteMark(caseId, markId),
-    'case/assume': async ({ caseId, assumptions }) => setAssumptions(caseId, assumptions),
+    'case/open': async ({ caseId, video }) => store.openCase(caseId, video, extensionVersion()),
+    'case/get': async ({ caseId }) => store.readCase(caseId),
+    'cases/forPage': async ({ pageUrl }) => store.casesForPage(pageUrl),
+    'mark/put': async ({ caseId, mark }) => store.putMark(caseId, mark),
+    'mark/remove': async ({ caseId, markId }) => store.deleteMark(caseId, markId),
+    'case/assume': async ({ caseId, assumptions }) => store.setAssumptions(caseId, assumptions),
     'overlay/inject': async ({ tabId }) => ({ injected: await injectOverlay(tabId) }),
     'frame/capture': async (_p, sender) => {
       // activeTab (granted when the user called the overlay up) allows capturing that tab
@@ -57,16 +39,16 @@ browser.runtime.onMessage.addListener(
     },
     'frames/foreign': async ({ tabId }) => ({ origins: await foreignFrameOrigins(tabId) }),
     'overlay/inject-origin': async ({ tabId, origin }) => ({ frames: await injectIntoOrigin(tabId, origin) }),
-    'cases/list': async () => listCases(),
-    'case/annotate': async ({ caseId, notes, status, tags }) => annotateCase(caseId, { notes, status, tags }),
-    'case/delete': async ({ caseId }) => deleteCase(caseId),
-    'case/undelete': async ({ caseId }) => undeleteCase(caseId),
-    'cases/deleted': async () => listDeleted(),
-    'cases/import': async ({ text }) => importCases(text),
-    'cases/export': async ({ caseIds }) => exportCases(caseIds),
-    'storage/usage': async () => storageUsage(),
-    'seek/request': async ({ pageUrl, t }) => requestSeek(pageUrl, t),
-    'seek/take': async ({ pageUrl }) => takeSeek(pageUrl),
+    'cases/list': async () => store.listCases(),
+    'case/annotate': async ({ caseId, notes, status, tags }) => store.annotateCase(caseId, { notes, status, tags }),
+    'case/delete': async ({ caseId }) => store.deleteCase(caseId),
+    'case/undelete': async ({ caseId }) => store.undeleteCase(caseId),
+    'cases/deleted': async () => store.listDeleted(),
+    'cases/import': async ({ text }) => store.importCases(text),
+    'cases/export': async ({ caseIds }) => store.exportCases(caseIds),
+    'storage/usage': async () => store.storageUsage(),
+    'seek/request': async ({ pageUrl, t }) => store.requestSeek(pageUrl, t),
+    'seek/take': async ({ pageUrl }) => store.takeSeek(pageUrl),
   }, guard),
 );
 

@@ -12,6 +12,7 @@ import { summaryText, type SummaryFormat } from '../../src/case/summary';
 import { toCaseFile } from '../../src/case/casefile';
 import { extensionVersion, message, send } from '../shared/browser';
 import { CameraPicker, DirectionPicker, MountPicker, SizePicker } from './pickers';
+import { saveText } from './download';
 import { commitsOnLeave, describedBy, FormField, valueOf } from '../shared/form-field';
 
 const DEG = Math.PI / 180;
@@ -213,11 +214,7 @@ function exportCase(c: CaseRecord): void {
   const json = JSON.stringify(toCaseFile(c, extensionVersion()), null, 2);
   const day = new Date(c.updatedAt).toISOString().slice(0, 10);
   const title = (c.video.pageTitle || 'case').replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40) || 'case';
-  const a = document.createElement('a');
-  a.href = URL.createObjectURL(new Blob([json], { type: 'application/json' }));
-  a.download = `clip-caliper-${title}-${day}-${c.id.slice(0, 8)}.json`;
-  a.click();
-  URL.revokeObjectURL(a.href);
+  saveText(json, `clip-caliper-${title}-${day}-${c.id.slice(0, 8)}.json`);
 }
 
 /** Copy the summary anyone can recompute: plain text or Markdown, with a preview of what is copied. */

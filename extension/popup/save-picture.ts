@@ -1,3 +1,5 @@
+import { saveFile } from './download';
+
 /**
  * Saves an on-screen SVG picture as an SVG file or a PNG (at twice its size, for sharp text). The
  * text colour the picture inherits from the page is written into the copy, so a saved file looks the
@@ -9,7 +11,7 @@ export async function savePicture(svg: SVGSVGElement, name: string, format: 'svg
   copy.setAttribute('style', `background: ${getComputedStyle(document.body).backgroundColor}`);
   const text = new XMLSerializer().serializeToString(copy);
   const svgBlob = new Blob([text], { type: 'image/svg+xml' });
-  if (format === 'svg') return download(svgBlob, `${name}.svg`);
+  if (format === 'svg') return saveFile(svgBlob, `${name}.svg`);
   const box = svg.viewBox.baseVal;
   const scale = 2;
   const img = new Image();
@@ -25,16 +27,8 @@ export async function savePicture(svg: SVGSVGElement, name: string, format: 'svg
     ctx.fillRect(0, 0, canvas.width, canvas.height);
     ctx.drawImage(img, 0, 0, canvas.width, canvas.height);
     const png = await new Promise<Blob>((ok, fail) => canvas.toBlob((b) => (b ? ok(b) : fail(new Error('no PNG'))), 'image/png'));
-    download(png, `${name}.png`);
+    saveFile(png, `${name}.png`);
   } finally {
     URL.revokeObjectURL(url);
   }
-}
-
-function download(blob: Blob, filename: string): void {
-  const a = document.createElement('a');
-  a.href = URL.createObjectURL(blob);
-  a.download = filename;
-  a.click();
-  setTimeout(() => URL.revokeObjectURL(a.href), 1000);
 }

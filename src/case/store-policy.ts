@@ -5,7 +5,7 @@ import { CaseFormatError } from './validate';
 /*
  * The case store's rules, kept pure so they are tested without a browser: which keys hold what,
  * what a quarantined record keeps, how much a write weighs against the quota, when to warn.
- * extension/background/cases.ts applies them to browser storage.
+ * src/case/store/ applies them to a key-value area (browser storage, wired in extension/background/cases.ts).
  */
 
 export const CASE_PREFIX = 'case:';

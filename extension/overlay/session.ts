@@ -1,13 +1,12 @@
-import { caseIdFor, stripFragment } from '../../src/case/ids';
-import type { CaseRecord, VideoInfo } from '../../src/case/schema';
+import type { CaseRecord } from '../../src/case/schema';
 import { assumedDimension } from '../../src/case/size-match';
-import { message, send } from '../shared/native';
+import { message } from '../shared/native';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
-import { watchCase } from './case-watch';
 import { forceStyle, trusted } from './dom';
 import { drawMarks, frameCoalescer } from './drawing';
 import { MarkEditor } from './editing';
+import { CaseOpening } from './opening';
 import { OverlayHost } from './host';
 import { initKeys, type KeyAction } from './keys';
 import { VideoMapping } from './mapping';
@@ -24,7 +23,7 @@ import { shadowRootsAround } from './videos';
 
 /**
  * One measuring session over one video: its host, its case, the marks, the tools. It ties the parts
- * (pointer.ts, keys.ts, editing.ts, drawing.ts, readout.ts, saving.ts, case-watch.ts), each wired
+ * (pointer.ts, keys.ts, editing.ts, drawing.ts, readout.ts, saving.ts, opening.ts), each wired
  * with the host's one AbortSignal, so that closing removes every listener at once.
  */
 export class MeasureSession {
@@ -36,9 +35,7 @@ export class MeasureSession {
   private readonly tools: ToolChoice;
   private readonly editor: MarkEditor;
   private readonly lens: Magnifier;
-  /** The current case's watch, ended when the video changes source. */
-  private caseWatch: AbortController | null = null;
-  private src = '';
+  private readonly opening: CaseOpening;
   /** Wired, placed and focused (the browser tests wait for it through the test build's handle). */
   ready = false;
   /** When it became ready, on the document's clock (the bench reads it through the test build's handle). */
@@ -51,7 +48,7 @@ export class MeasureSession {
 
   constructor(
     readonly video: HTMLVideoElement,
-    private readonly index: number,
+    index: number,
     private readonly onClosed: (s: MeasureSession) => void,
   ) {
     // the first stage may have drawn the host and panel already: this session wires those elements
@@ -86,6 +83,7 @@ export class MeasureSession {
     this.saver = new CaseSaver(this.ctx, (c) => this.adopted(c), (mark) => this.readout.announce(mark));
     this.editor = new MarkEditor(this.ctx, this.saver, this.pixels, () => this.describeVideo());
     this.lens = new Magnifier(this.ctx);
+    this.opening = new CaseOpening(this.ctx, index, this.saver, () => this.describeVideo());
     this.tools.init(host.signal);
     parts.close.addEventListener('click', trusted(() => void this.close()), { signal: host.signal });
     this.finishAfterFirstFrame();
@@ -124,7 +122,7 @@ export class MeasureSession {
     };
     this.wire(this.host.signal);
     this.describeVideo();
-    void this.openCase();
+    this.opening.init(this.host.signal);
     this.ctx.el.surface.focus();
     this.ready = true;
     this.readyAt = performance.now();
@@ -136,12 +134,6 @@ export class MeasureSession {
     initKeys(ctx, (a) => this.act(a), signal);
     const v = this.video;
     v.addEventListener('seeked', () => this.redraw(), { signal });
-    for (const type of ['loadedmetadata', 'emptied']) {
-      v.addEventListener(type, () => {
-        ctx.mapping.invalidate();
-        this.sourceChanged();
-      }, { signal });
-    }
     const useSettings = (st: { system: UnitSystem; markerName?: string }) => {
       ctx.state.system = st.system;
       ctx.state.markerName = st.markerName ?? '';
@@ -184,50 +176,6 @@ export class MeasureSession {
     }
   }
 
-  private videoInfo(): VideoInfo {
-    const v = this.video;
-    const doc = v.ownerDocument;
-    return {
-      pageUrl: stripFragment(doc.location.href),
-      pageTitle: doc.title.slice(0, 2000),
-      src: v.currentSrc.startsWith('blob:') ? '' : v.currentSrc,
-      width: v.videoWidth,
-      height: v.videoHeight,
-      duration: Number.isFinite(v.duration) ? v.duration : null,
-    };
-  }
-
-  private async openCase(): Promise<void> {
-    const v = this.video;
-    if (v.videoWidth === 0) {
-      this.ctx.notice(message('ovlWaiting'));
-      return;
-    }
-    this.src = v.currentSrc;
-    const caseId = caseIdFor(v.ownerDocument.location.href, v.currentSrc.startsWith('blob:') ? '' : v.currentSrc, this.index);
-    this.saver.caseId = caseId;
-    // the popup edits assumptions (and another tab may add marks): follow the stored case
-    this.caseWatch?.abort();
-    const watch = (this.caseWatch = new AbortController());
-    this.host.signal.addEventListener('abort', () => watch.abort(), { signal: watch.signal });
-    watchCase(caseId, (c) => this.saver.adopt(c), watch.signal);
-    try {
-      this.saver.adopt(await send('case/open', { caseId, video: this.videoInfo() }));
-      this.describeVideo();
-      this.redraw();
-      const n = this.ctx.state.record!.marks.length;
-      this.ctx.say(message(n === 1 ? 'ovlReadyOne' : 'ovlReadyMany', String(n)));
-      // the case log opened this page at a mark: go to it once (taking the request clears it)
-      const seek = await send('seek/take', { pageUrl: this.videoInfo().pageUrl }).catch(() => ({ t: null }));
-      if (seek.t !== null && Number.isFinite(seek.t) && seek.t >= 0) {
-        v.pause();
-        v.currentTime = Number.isFinite(v.duration) ? Math.min(seek.t, v.duration) : seek.t;
-      }
-    } catch (err) {
-      this.ctx.notice(message('ovlOpenFailed', (err as Error).message));
-    }
-  }
-
   /** A stored version of the case was taken (saving.ts adopt). */
   private adopted(c: CaseRecord): void {
     this.readout.adopt(c);
@@ -236,20 +184,6 @@ export class MeasureSession {
     const { state } = this.ctx;
     if (!state.dimensionPicked && assumed && assumed !== state.dimension) this.tools.showDimension(assumed);
     this.redraw();
-  }
-
-  private sourceChanged(): void {
-    if (this.video.currentSrc === this.src) return;
-    this.saver.flush();
-    // the old case's versions no longer concern this video
-    this.caseWatch?.abort();
-    const { state } = this.ctx;
-    state.record = null;
-    state.savedCount = 0;
-    state.draft = null;
-    state.selected = null;
-    this.ctx.say(message('ovlVideoChanged'));
-    void this.openCase();
   }
 
   private describeVideo(): void {

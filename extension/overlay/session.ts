@@ -5,7 +5,7 @@ import { loadSettings, onSettingsChanged } from '../shared/settings';
 import type { UnitSystem } from '../../src/engine/units';
 import { forceStyle, trusted } from './dom';
 import { drawMarks, frameCoalescer } from './drawing';
-import { MarkEditor } from './editing';
+import { markEditor, type MarkEditor } from './editing';
 import { CaseOpening } from './opening';
 import { OverlayHost } from './host';
 import { initKeys, type KeyAction } from './keys';
@@ -81,7 +81,7 @@ export class MeasureSession {
     this.readout = new Readout(this.ctx);
     this.tools = new ToolChoice(this.ctx, (d) => this.readout.sizeMismatch(d));
     this.saver = new CaseSaver(this.ctx, (c) => this.adopted(c), (mark) => this.readout.announce(mark));
-    this.editor = new MarkEditor(this.ctx, this.saver, this.pixels, () => this.describeVideo());
+    this.editor = markEditor(this.ctx, this.saver, this.pixels, () => this.describeVideo());
     this.lens = new Magnifier(this.ctx);
     this.opening = new CaseOpening(this.ctx, index, this.saver, () => this.describeVideo());
     this.tools.init(host.signal);

@@ -1,68 +1,118 @@
-import type { FrameRect } from '../../src/case/frames';
-import type { Point } from '../../src/case/schema';
-import { landmarkDimensionOf } from '../../src/case/marks';
-import { solveFrame, type FrameResult } from '../../src/engine/frame-solve';
-import type { EngineAssumptions as LiveAssumptions } from '../../src/case/assumptions';
-
-export interface LiveFigures {
-  spanPx: number;
-  result: FrameResult;
-}
-
-let memoKey = '';
-let memoAssumptions: LiveAssumptions | null = null;
-let memoValue: LiveFigures | null = null;
+import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
+import type { FrameBasis } from '../../src/case/frame-figures';
+import { cameraFrame } from '../../src/case/frames';
+import type { CaseRecord, Mark } from '../../src/case/schema';
+import { disagreement, type SpanDimension } from '../../src/case/size-match';
+import { message } from '../shared/native';
+import { h } from './dom';
+import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
+import { liveFigures } from './live-figures';
+import { DIMENSIONS, TOOLS } from './panel';
+import type { SessionContext } from './state';
 
 /**
- * The figures for one object span (and an optional landmark at the same frame) under the live
- * assumptions: a small Monte Carlo (4 000 draws, well under a millisecond) so the readout can
- * follow a drag.
+ * The panel's readout: the figures of the frame shown (or of the span being dragged) under the
+ * case's assumptions, what they assume, and the spoken line after a save.
  */
-export function liveFigures(
-  object: { points: readonly Point[]; edgeSigmaPx: number },
-  landmark: { points: readonly Point[]; edgeSigmaPx: number } | null,
-  frame: FrameRect,
-  a: LiveAssumptions,
-): LiveFigures | null {
-  // a redraw with the same marks, frame and assumptions reuses the last solve
-  const key = JSON.stringify([object.points, object.edgeSigmaPx, landmark?.points, landmark?.edgeSigmaPx, frame]);
-  if (key === memoKey && a === memoAssumptions) return memoValue;
-  memoKey = key;
-  memoAssumptions = a;
-  memoValue = solveLive(object, landmark, frame, a);
-  return memoValue;
-}
+export class Readout {
+  private assumptions: EngineAssumptions = engineAssumptions(undefined);
+  private readonly spanAssumptions = new Map<string, EngineAssumptions>();
 
-function solveLive(
-  object: { points: readonly Point[]; edgeSigmaPx: number },
-  landmark: { points: readonly Point[]; edgeSigmaPx: number } | null,
-  frame: FrameRect,
-  a: LiveAssumptions,
-): LiveFigures | null {
-  const [p, q] = object.points as [Point, Point];
-  const spanPx = Math.hypot(q.x - p.x, q.y - p.y);
-  if (spanPx < 0.5) return null;
-  const W = frame.right - frame.left;
-  const H = frame.bottom - frame.top;
-  const toSpan = (pts: readonly Point[], sigma: number) => {
-    const [u, v] = pts as [Point, Point];
-    return { x1: u.x - frame.left, y1: u.y - frame.top, x2: v.x - frame.left, y2: v.y - frame.top, edgeSigmaPx: sigma };
-  };
-  try {
-    const result = solveFrame(
-      {
-        frame: { widthPx: W, heightPx: H },
-        hfov: a.hfov,
-        object: { span: toSpan(object.points, object.edgeSigmaPx), size: a.objectSize, aspect: a.aspect },
-        // a landmark has its own dimension (marked upright: a height, no aspect; marked level: a width) and never the object's aspect
-        ...(landmark ? { landmark: { span: toSpan(landmark.points, landmark.edgeSigmaPx), size: a.landmarkSize, dimension: landmarkDimensionOf(landmark.points) } } : {}),
-        cameraHeight: a.cameraHeight,
-      },
-      { draws: 4000, seed: 1 },
-    );
-    return { spanPx, result };
-  } catch {
-    // an end outside the camera frame, for instance: the readout says so instead of a number
-    return null;
+  constructor(private readonly ctx: SessionContext) {}
+
+  /** A stored version of the case arrived: its assumptions hold from now. */
+  adopt(c: CaseRecord): void {
+    this.assumptions = engineAssumptions(c.assumptions, c.marks);
+    this.spanAssumptions.clear();
+  }
+
+  /**
+   * The assumptions for a span marked as `dimension`, made once per stored case: the live readout
+   * keeps its last solve while they are the same object, and a redraw runs on every pointer move.
+   */
+  private assumptionsFor(dimension: NonNullable<Mark['dimension']>): EngineAssumptions {
+    let a = this.spanAssumptions.get(dimension);
+    if (!a) {
+      a = engineAssumptions(this.ctx.state.record?.assumptions, [{ kind: 'object-span', dimension } as Mark]);
+      this.spanAssumptions.set(dimension, a);
+    }
+    return a;
+  }
+
+  /**
+   * The field across the camera frame is the assumed one: turning a landscape class's field for a
+   * portrait picture (pass-scene.ts fieldOfView) needs every class's derivation, about 2 KB gzipped
+   * the injected overlay does not carry (defaults.ts).
+   */
+  private basis(a: EngineAssumptions): FrameBasis {
+    const { record } = this.ctx.state;
+    const v = this.ctx.video;
+    return { a, frame: cameraFrame(record?.marks ?? [], v.videoWidth, v.videoHeight), hfov: a.hfov };
+  }
+
+  /** Shows the figures for the frame whose marks are `here`. */
+  update(here: Mark[]): void {
+    const { state, video } = this.ctx;
+    const draft = state.draft;
+    const draftSpan = draft && draft.kind === 'object-span' && draft.points.length === 2 ? draft : null;
+    const obj = draftSpan
+      ? { points: draftSpan.points, edgeSigmaPx: this.ctx.mapping.handSigma(draftSpan.points, false), dimension: state.dimension }
+      : here.find((x) => x.kind === 'object-span');
+    // the default size follows the dimension this span is marked as (assumptions.ts sizeForMarks)
+    const spanDimension = obj?.dimension;
+    const a = spanDimension ? this.assumptionsFor(spanDimension) : this.assumptions;
+    const noteText = here.map((x) => state.snapNotes.get(x.id)).find((x) => x);
+    const note = noteText ? [h('div', { class: 'notice', 'data-testid': 'snap-note' }, noteText)] : [];
+    const t = video.currentTime;
+    const head = h('div', { class: 'muted' }, message(state.savedCount === 1 ? 'ovlFrameHeadOne' : 'ovlFrameHead', [timestamp(t), String(state.savedCount)]));
+    const el = this.ctx.el.readout;
+    if (!obj) {
+      el.replaceChildren(head, h('div', {}, TOOLS.find((x) => x.kind === state.tool)!.hint), ...note);
+      return;
+    }
+    const f = liveFigures(obj, here, t, this.basis(a));
+    if (!f) {
+      el.replaceChildren(head, h('div', {}, message('ovlOutsidePicture')));
+      return;
+    }
+    const { system } = state;
+    const lines: (HTMLElement | string)[] = [
+      head,
+      h('div', { class: 'big', 'data-testid': 'range' }, message('ovlRange', distanceEstimate(f.result.range, system))),
+      h('div', {}, message('ovlSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize)])),
+    ];
+    const lr = f.result.landmarkHorizontalRange ?? f.result.landmarkRange;
+    if (lr) lines.push(h('div', {}, message('ovlLandmarkRange', distanceEstimate(lr, system))));
+    if (f.result.impliedSpeed) lines.push(h('div', {}, message('ovlImpliedSpeed', speedEstimate(f.result.impliedSpeed, system))));
+    const mismatch = this.sizeMismatch(spanDimension);
+    if (mismatch) lines.push(h('div', { class: 'notice', 'data-testid': 'dimension-mismatch' }, mismatch));
+    lines.push(...note);
+    const broadside = a.aspect.lo === a.aspect.hi && Math.abs(a.aspect.lo - Math.PI / 2) < 1e-9;
+    // the labels are stored in the case (data); only the sentence around them is ours
+    lines.push(h('div', { class: 'muted' }, message(broadside ? 'ovlAssumingBroadside' : 'ovlAssumingAspect', [a.sizeLabel, a.cameraLabel.toLowerCase()])));
+    el.replaceChildren(...lines);
+  }
+
+  /** When a span marked as `marked` disagrees with the dimension the case's size is: what to tell the user. */
+  sizeMismatch(marked: Mark['dimension']): string | null {
+    const d = disagreement(marked, this.ctx.state.record?.assumptions);
+    if (!d) return null;
+    const word = (x: SpanDimension) => DIMENSIONS.find((y) => y.value === x)!.label;
+    return message('ovlDimensionMismatch', [word(d.marked), word(d.assumed)]);
+  }
+
+  /** Says what a saved mark gave: the span, its angle and the range, with any snap note. */
+  announce(mark: Mark): void {
+    const { state } = this.ctx;
+    const note = state.snapNotes.get(mark.id);
+    const speak = (text: string) => this.ctx.say(note ? `${text} ${note}` : text);
+    if (mark.kind !== 'object-span' || !state.record) {
+      if (note) this.ctx.say(note);
+      return;
+    }
+    // the span alone: the line says its range, which no landmark changes
+    const f = liveFigures(mark, [], mark.t, this.basis(this.assumptions));
+    if (f) speak(message('ovlSavedSpan', [f.spanPx.toFixed(1), degreesEstimate(f.result.angularSize), distanceEstimate(f.result.range, state.system)]));
+    else speak(message('ovlSaved'));
   }
 }

@@ -3,12 +3,13 @@ import { solvePass, type Conditioning, type PassHypothesis, type PassMarkFigures
 import { judgeSpeed, type Verdict } from '../engine/plausibility';
 import { cautiousTail, type Estimate } from '../engine/stats';
 import { passBins } from '../engine/pass-bins';
-import { solveFrame, type FrameResult } from '../engine/frame-solve';
+import type { FrameResult } from '../engine/frame-solve';
 import type { RegimeShares } from '../engine/uncertainty';
 import { engineAssumptions, type EngineAssumptions } from './assumptions';
-import { cameraFrame, marksIndex, spanInFrame, type FrameRect } from './frames';
+import { cameraFrame, marksIndex, type FrameRect } from './frames';
+import { frameFigures } from './frame-figures';
 import { checkLandmarks, type LandmarkCheck } from './landmark-checks';
-import { allowedReadings, axisOf, fieldOfView, horizonAt, landmarkBody, LEVEL, passInputs, signsFor, type FieldOfView } from './pass-scene';
+import { allowedReadings, axisOf, fieldOfView, passInputs, signsFor, type FieldOfView } from './pass-scene';
 import type { CaseRecord, Mark } from './schema';
 import { dimensionMismatch, mismatchText } from './size-match';
 import { measuredObserverSpeed, type LaneSpeed } from './lane-speed';
@@ -185,7 +186,6 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   const frameDraws = options.draws === undefined ? cappedDraws(c.marks.filter((m) => m.kind === 'object-span').length, 20_000, FRAME_DRAW_BUDGET) : { draws: options.draws, tail: 0.05, capped: false };
   const draws = frameDraws.draws;
   const seed = options.seed ?? 1;
-  const frameSize = { widthPx: frame.right - frame.left, heightPx: frame.bottom - frame.top };
   const warnings: CaseWarning[] = [];
   if (field.note) warnings.push({ code: 'portrait-field', text: field.note });
 
@@ -197,28 +197,13 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   // steps: each frame, then each draw of each sign of the pass (counted as if the pass will run)
   const passSteps = (count: number) => cappedDraws(count, 2_000, PASS_DRAW_BUDGET).draws * signsFor(a.direction).length;
   let total = allObjects.length + passSteps(allObjects.length);
+  const basis = { a, frame, hfov: field.hfov };
   for (const [i, m] of allObjects.entries()) {
     report?.(i, total);
-    const here = near(m.t);
-    const landmark = here.find((x) => x.kind === 'landmark-span') ?? null;
-    const horizon = a.fixedCamera ? null : horizonAt(here, m.t, frame);
     try {
-      const result = solveFrame(
-        {
-          frame: frameSize,
-          hfov: field.hfov,
-          object: { span: spanInFrame(m, frame), size: a.objectSize, aspect: m.dimension === 'other' ? { lo: Math.PI / 2, hi: Math.PI / 2 } : a.aspect },
-          ...(landmark ? { landmark: landmarkBody(landmark, a, frame) } : {}),
-          ...(a.observerSpeed ? { observerSpeed: a.observerSpeed } : {}),
-          ...(horizon ? { horizon } : {}),
-          ...(a.fixedCamera ? { pitch: a.fixedCamera.pitch ?? LEVEL } : {}),
-          ...(a.elevation ? { elevation: a.elevation } : {}),
-          cameraHeight: a.cameraHeight,
-        },
-        { draws, seed, tail: frameDraws.tail },
-      );
-      const [p, q] = m.points;
-      timestamps.push({ t: m.t, objectMark: m, spanPx: Math.hypot(q!.x - p!.x, q!.y - p!.y), result, landmarkMark: landmark, regime: majority(result.regimeShares), fitted: null });
+      // the overlay's live readout solves a frame with this same function (frame-figures.ts)
+      const f = frameFigures(m, near(m.t), m.t, basis, { draws, seed, tail: frameDraws.tail });
+      timestamps.push({ t: m.t, objectMark: m, spanPx: f.spanPx, result: f.result, landmarkMark: f.landmark, regime: majority(f.result.regimeShares), fitted: null });
     } catch (err) {
       problems.push(`object ends at ${m.t.toFixed(3)} s: ${(err as Error).message}`);
     }

@@ -53,7 +53,7 @@ export function marksIndex(marks: readonly Mark[]): (t: number) => Mark[] {
 }
 
 /** A span mark's ends relative to the camera frame, as the engine takes them. */
-export function spanInFrame(m: Mark, frame: FrameRect) {
+export function spanInFrame(m: Pick<Mark, 'edgeSigmaPx'> & { points: readonly Point[] }, frame: FrameRect) {
   const [u, v] = m.points as [Point, Point];
   return { x1: u.x - frame.left, y1: u.y - frame.top, x2: v.x - frame.left, y2: v.y - frame.top, edgeSigmaPx: m.edgeSigmaPx };
 }

@@ -2,12 +2,15 @@ import { DEG } from '../engine/constants';
 import type { HorizonMark, LandmarkMark, PassScene } from '../engine/pass-inputs';
 import { Axis, type AxisCode } from '../engine/pass-model';
 import { CAMERA_PROFILES, PROFILE_DERIVATIONS } from '../engine/profiles';
-import type { HorizonLine, LandmarkBody } from '../engine/frame-solve';
+import type { HorizonLine } from '../engine/frame-solve';
 import type { Band } from '../engine/uncertainty';
 import type { EngineAssumptions } from './assumptions';
-import { marksAt, marksIndex, spanInFrame, type FrameRect } from './frames';
-import { landmarkDimensionOf } from './marks';
-import type { Mark, Point } from './schema';
+import { horizonAt, landmarkBody, LEVEL } from './frame-figures';
+import { marksIndex, spanInFrame, type FrameRect } from './frames';
+import type { Mark } from './schema';
+
+// one frame's scene is put together in frame-figures.ts (the overlay carries it); the pass reuses its pieces
+export { horizonAt, landmarkBody, LEVEL };
 
 /*
  * From a case's marks and assumptions to what the engine takes: the field of view across the picture
@@ -16,9 +19,6 @@ import type { Mark, Point } from './schema';
  */
 
 /** The elevation assumed when nothing in the frame gives it and the user did not: wide on purpose (common practice: objects filmed from a road sit 0-60 deg up). */
-/** A fixed camera's pitch when none is given and no horizon is marked. */
-export const LEVEL: Band = { lo: 0, hi: 0 };
-
 export const UNKNOWN_ELEVATION: Band = { lo: 0, hi: 60 * DEG };
 
 /** The field of view used, and why it differs from the one assumed. */
@@ -66,26 +66,6 @@ export function axisOf(dimension: Mark['dimension']): AxisCode {
     default:
       return Axis.WINGSPAN;
   }
-}
-
-/** A landmark mark as the engine takes it: its own size (by id, else the shared one) and dimension. */
-export function landmarkBody(m: Mark, a: EngineAssumptions, frame: FrameRect): LandmarkBody {
-  // marks made before a landmark carried its dimension: read it from the span's direction
-  const dimension = m.landmarkDimension ?? landmarkDimensionOf(m.points);
-  return {
-    span: spanInFrame(m, frame),
-    size: (m.landmarkId !== undefined ? a.landmarkSizes.get(m.landmarkId) : undefined) ?? a.landmarkSize,
-    dimension,
-    ...(dimension === 'width' && a.landmarkAspect ? { aspect: a.landmarkAspect } : {}),
-  };
-}
-
-/** The horizon marked on the frame at t, in camera-frame pixels. */
-export function horizonAt(marks: readonly Mark[], t: number, frame: FrameRect): HorizonLine | null {
-  const h = marksAt(marks, t).find((m) => m.kind === 'horizon');
-  if (!h) return null;
-  const [p, q] = h.points as [Point, Point];
-  return { x1: p.x - frame.left, y1: p.y - frame.top, x2: q.x - frame.left, y2: q.y - frame.top, sigmaPx: h.edgeSigmaPx };
 }
 
 /** The horizon a fixed camera keeps: the latest marked. */

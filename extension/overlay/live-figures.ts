@@ -1,8 +1,17 @@
+import type { EngineAssumptions } from '../../src/case/assumptions';
+import { fieldOfView } from '../../src/case/camera-fields';
 import { frameFigures, type FrameBasis, type FrameFigures, type ObjectSpan } from '../../src/case/frame-figures';
+import { cameraFrame } from '../../src/case/frames';
 import type { Mark } from '../../src/case/schema';
 
 /** The overlay's draws per solve: 4 000 take well under a millisecond, so the readout can follow a drag. */
 export const LIVE_DRAWS = 4000;
+
+/** The camera frame from the case's marks, and the field across it as the popup takes it (a landscape class's field turned for a portrait picture). */
+export function liveBasis(a: EngineAssumptions, marks: readonly Mark[], videoWidth: number, videoHeight: number): FrameBasis {
+  const frame = cameraFrame(marks, videoWidth, videoHeight);
+  return { a, frame, hfov: fieldOfView(a, frame).hfov };
+}
 
 let memoKey = '';
 let memoBasis: FrameBasis | null = null;

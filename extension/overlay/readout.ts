@@ -1,12 +1,11 @@
 import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
 import type { FrameBasis } from '../../src/case/frame-figures';
-import { cameraFrame } from '../../src/case/frames';
 import type { CaseRecord, Mark } from '../../src/case/schema';
 import { disagreement, type SpanDimension } from '../../src/case/size-match';
 import { message } from '../shared/native';
 import { h } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';
-import { liveFigures } from './live-figures';
+import { liveBasis, liveFigures } from './live-figures';
 import { DIMENSIONS, TOOLS } from './panel';
 import type { SessionContext } from './state';
 
@@ -39,15 +38,9 @@ export class Readout {
     return a;
   }
 
-  /**
-   * The field across the camera frame is the assumed one: turning a landscape class's field for a
-   * portrait picture (pass-scene.ts fieldOfView) needs every class's derivation, about 2 KB gzipped
-   * the injected overlay does not carry (defaults.ts).
-   */
   private basis(a: EngineAssumptions): FrameBasis {
-    const { record } = this.ctx.state;
     const v = this.ctx.video;
-    return { a, frame: cameraFrame(record?.marks ?? [], v.videoWidth, v.videoHeight), hfov: a.hfov };
+    return liveBasis(a, this.ctx.state.record?.marks ?? [], v.videoWidth, v.videoHeight);
   }
 
   /** Shows the figures for the frame whose marks are `here`. */

@@ -1,7 +1,6 @@
 import { DEG } from '../engine/constants';
 import type { HorizonMark, LandmarkMark, PassScene } from '../engine/pass-inputs';
 import { Axis, type AxisCode } from '../engine/pass-model';
-import { CAMERA_PROFILES, PROFILE_DERIVATIONS } from '../engine/profiles';
 import type { HorizonLine } from '../engine/frame-solve';
 import type { Band } from '../engine/uncertainty';
 import type { EngineAssumptions } from './assumptions';
@@ -11,6 +10,8 @@ import type { Mark } from './schema';
 
 // one frame's scene is put together in frame-figures.ts (the overlay carries it); the pass reuses its pieces
 export { horizonAt, landmarkBody, LEVEL };
+// the field across the picture is worked out in camera-fields.ts (the overlay carries that too)
+export { fieldOfView, type FieldOfView } from './camera-fields';
 
 /*
  * From a case's marks and assumptions to what the engine takes: the field of view across the picture
@@ -20,40 +21,6 @@ export { horizonAt, landmarkBody, LEVEL };
 
 /** The elevation assumed when nothing in the frame gives it and the user did not: wide on purpose (common practice: objects filmed from a road sit 0-60 deg up). */
 export const UNKNOWN_ELEVATION: Band = { lo: 0, hi: 60 * DEG };
-
-/** The field of view used, and why it differs from the one assumed. */
-export interface FieldOfView {
-  hfov: Band;
-  /** The picture is taller than wide and the field was a landscape camera class's: turned to the portrait width. */
-  portrait: boolean;
-  note: string | null;
-}
-
-/**
- * A camera class's field of view is across the long side of its landscape picture. A portrait
- * picture from it (taller than wide) spans the short side across its width: tan(HFOV/2) scales by
- * the class's short side over its long side (9/16), which is the landscape picture's vertical field (the portrait classes in
- * profiles.ts are that same field, derived on their own). A field the user typed is taken as given,
- * across the picture's width.
- */
-export function fieldOfView(a: EngineAssumptions, frame: FrameRect): FieldOfView {
-  const W = frame.right - frame.left;
-  const H = frame.bottom - frame.top;
-  const profile = CAMERA_PROFILES.find((p) => p.label === a.cameraLabel);
-  if (!(H > W)) return { hfov: a.hfov, portrait: false, note: null };
-  if (!profile || profile.id.includes('portrait')) {
-    return { hfov: a.hfov, portrait: false, note: `The picture is portrait (${W.toFixed(0)} x ${H.toFixed(0)} px): the field of view is taken across its width, as given.` };
-  }
-  // the class's own recorded shape (16:9 for phones), not the marked picture's rounded pixels
-  const recorded = PROFILE_DERIVATIONS.find((d) => d.id === profile.id)?.recordedAspect ?? H / W;
-  const k = 1 / recorded;
-  const turn = (x: number) => 2 * Math.atan(Math.tan(x / 2) * k);
-  return {
-    hfov: { lo: turn(a.hfov.lo), hi: turn(a.hfov.hi) },
-    portrait: true,
-    note: `The picture is portrait (${W.toFixed(0)} x ${H.toFixed(0)} px): the camera class's field of view is turned to its width.`,
-  };
-}
 
 export function axisOf(dimension: Mark['dimension']): AxisCode {
   switch (dimension) {

@@ -3,7 +3,7 @@ import { analyseCase } from '../../../src/case/analysis';
 import { defaultAssumptions } from '../../../src/case/assumptions';
 import { newCase, upsertMark, withAssumptions } from '../../../src/case/marks';
 import type { Mark } from '../../../src/case/schema';
-import { LIVE_DRAWS, liveFigures } from '../../../extension/overlay/live-figures';
+import { LIVE_DRAWS, liveBasis, liveFigures } from '../../../extension/overlay/live-figures';
 
 /*
  * The overlay's live readout and the popup compute a frame with the same function (src/case
@@ -43,5 +43,19 @@ describe('liveFigures', () => {
     const r = analyseCase(c, { draws: 300, seed: 1 });
     const out = { points: [{ x: 1200, y: 300 }, { x: 1400, y: 300 }], edgeSigmaPx: 0.6 };
     expect(liveFigures(out, [], 1, { a: r.assumptions, frame: r.frame, hfov: r.field.hfov })).toBeNull();
+  });
+
+  it("a portrait picture from a landscape camera class: the readout turns the class's field as the popup does, and gives its figures", () => {
+    // the invented scene stood on end: a 720 x 1280 picture, the object across it, no landmark
+    const pm = { ...mapping, picture: { x: 0, y: 0, width: 720, height: 1280 } };
+    const o: Mark = { ...obj, points: [{ x: 300, y: 500 }, { x: 420, y: 502 }], mapping: pm };
+    let c = newCase('p', { pageUrl: 'http://127.0.0.1/x', pageTitle: 'invented', src: '', width: 720, height: 1280, duration: 4 }, '0.1.0', 1);
+    c = withAssumptions(upsertMark(c, o, 2), { ...defaultAssumptions(), observerSpeedMs: { lo: 20, hi: 25 } }, 3);
+    const r = analyseCase(c, { draws: LIVE_DRAWS, seed: 1 });
+    expect(r.field.portrait).toBe(true);
+    const basis = liveBasis(r.assumptions, c.marks, 720, 1280);
+    expect(basis.hfov).toEqual(r.field.hfov);
+    expect(basis.hfov.hi).toBeLessThan(r.assumptions.hfov.lo);
+    expect(liveFigures(o, c.marks, 1, basis)!.result).toEqual(r.timestamps[0]!.result);
   });
 });

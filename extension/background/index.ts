@@ -20,6 +20,7 @@ import {
   casePageOf,
 } from './cases';
 import { injectOverlay, type CallUpOptions } from '../shared/call-up';
+import './announce';
 import { foreignFrameOrigins, injectIntoOrigin } from './inject';
 import { routeMessages, type Guard } from './router';
 import { judge, needsCasePage, refusal, type SenderFacts } from './senders';

@@ -1,36 +1,13 @@
 import { CASE_STATUSES, type CaseStatus } from '../../../src/case/schema';
-import { DEFAULT_QUERY, parseDayRange, SORT_KEYS, type DateField, type LogQuery, type SortKey } from '../../../src/case/log';
+import { SORT_KEYS, type DateField, type SortKey } from '../../../src/case/log';
 import { message as t } from '../../shared/browser';
 import { describedBy, FormField, valueOf } from '../../shared/form-field';
+import { EMPTY_FILTERS, type DateError, type FilterText } from './query';
 import { SORT_LABEL, statusWord } from './text';
 
-/* Search and filters: what the user typed, and the query it makes. */
+/* Search and filters, as the user types them (query.ts makes the query). */
 
-export interface FilterText {
-  text: string;
-  statuses: CaseStatus[];
-  tag: string;
-  site: string;
-  dateField: DateField;
-  from: string;
-  to: string;
-  sort: SortKey;
-  descending: boolean;
-}
-export const EMPTY_FILTERS: FilterText = { text: '', statuses: [], tag: '', site: '', dateField: 'updatedAt', from: '', to: '', sort: 'updated', descending: true };
-
-/** The typed filters as a query, or the field that is wrong and why (the last good query stays). */
-export function toQuery(f: FilterText): { query: LogQuery } | { field: 'from' | 'to'; error: string } {
-  try {
-    const { from, to } = parseDayRange(f.from, f.to, new Date().getTimezoneOffset());
-    return { query: { ...DEFAULT_QUERY, text: f.text, statuses: f.statuses, tag: f.tag || null, site: f.site || null, dateField: f.dateField, from, to, sort: f.sort, descending: f.descending } };
-  } catch (e) {
-    const msg = (e as Error).message;
-    return { field: msg.startsWith('from date') ? 'from' : 'to', error: msg };
-  }
-}
-
-export function Filters({ f, set, tags, sites, dateError }: { f: FilterText; set: (next: FilterText) => void; tags: string[]; sites: string[]; dateError: { field: 'from' | 'to'; error: string } | null }) {
+export function Filters({ f, set, tags, sites, dateError }: { f: FilterText; set: (next: FilterText) => void; tags: string[]; sites: string[]; dateError: DateError | null }) {
   const upd = <K extends keyof FilterText>(k: K, v: FilterText[K]) => set({ ...f, [k]: v });
   const toggleStatus = (s: CaseStatus, on: boolean) => upd('statuses', on ? [...f.statuses, s] : f.statuses.filter((x) => x !== s));
   const dateField = (which: 'from' | 'to') => {

@@ -4,8 +4,9 @@ import { applyQuery, DEFAULT_QUERY, distinctSites, distinctTags, shownTitle, typ
 import { message as t, send } from '../../shared/browser';
 import { CaseList } from './case-list';
 import { Detail } from './detail';
-import { EMPTY_FILTERS, Filters, toQuery, type FilterText } from './filters';
+import { Filters } from './filters';
 import { ImportExport } from './import-export';
+import { EMPTY_FILTERS, toQuery, type FilterText } from './query';
 import { Storage } from './storage';
 import { followSystem, useSystem } from './system';
 import { UndoList, useDeleted, type Deleted } from './undo';
@@ -50,7 +51,7 @@ export function LogView() {
     document.getElementById('log-undo-0')?.focus();
   }, [deleted]);
 
-  const parsed = useMemo(() => toQuery(filters), [filters]);
+  const parsed = useMemo(() => toQuery(filters, new Date().getTimezoneOffset()), [filters]);
   const query = 'query' in parsed ? parsed.query : lastQuery;
   useEffect(() => {
     if ('query' in parsed) setLastQuery(parsed.query);

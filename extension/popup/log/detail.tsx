@@ -1,6 +1,6 @@
 import { useEffect, useRef, useState } from 'preact/hooks';
 import type { CaseListing } from '../../../src/case/listing';
-import type { CaseRecord } from '../../../src/case/schema';
+import type { CaseRecord, MarkKind } from '../../../src/case/schema';
 import { marksByTimestamp, openableUrl, shownTitle } from '../../../src/case/log';
 import { marksCsv } from '../../../src/case/csv';
 import { exportFileName } from '../../../src/case/importing';
@@ -10,7 +10,19 @@ import { Annotate } from './annotate';
 import { download } from './download';
 import { HeadlineCell } from './headline-cell';
 import { currentSystem, useSystem } from './system';
-import { day, KIND_KEY, stamp } from './text';
+import { day, stamp } from './text';
+
+// in the file that reads it: the message table's test resolves keys from tables beside their call
+const KIND_KEY: Record<MarkKind, string> = {
+  'object-span': 'logKindObject',
+  'landmark-span': 'logKindLandmark',
+  'frame-edges': 'logKindEdges',
+  'lane-dash': 'logKindLane',
+  'object-centre': 'logKindCentre',
+  'frame-top-bottom': 'logKindEdges',
+  horizon: 'logKindHorizon',
+  'road-ahead': 'logKindRoadAhead',
+};
 
 /** One case: its figure, notes, marks by timestamp, and what can be done with it (open, export, delete). */
 export function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: boolean; onDeleted: (c: CaseListing) => void; say: (msg: string) => void }) {

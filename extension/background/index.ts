@@ -2,6 +2,7 @@ import { SCHEMA_VERSION } from '../../src/case/schema';
 import { browser, extensionVersion, message } from '../shared/browser';
 import { store } from './cases';
 import { injectOverlay, type CallUpOptions } from '../shared/call-up';
+import './announce';
 import { foreignFrameOrigins, injectIntoOrigin } from './inject';
 import { routeMessages, type Guard } from './router';
 import { judge, needsCasePage, refusal, type SenderFacts } from './senders';

@@ -3,9 +3,10 @@ import { useEffect, useState } from 'preact/hooks';
 import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
 import { firstStage, injectOverlay } from '../shared/call-up';
-import { afterNextFrame } from '../overlay/shell';
+import { afterNextFrame } from '../shared/next-frame';
+import { subscribe } from '../shared/subscribe';
 import type { CaseView as CaseViewComponent } from './case-view';
-import { LogView, isLogRoute } from './log-view';
+import { LogView, isLogRoute } from './log';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
 import type { Settings } from '../../src/case/settings';
 
@@ -134,7 +135,7 @@ function useCaseView(): typeof CaseViewComponent | null {
   return view;
 }
 
-/** The measured cases of the tab's page; follows storage, so marks and edits appear as they are saved. */
+/** The measured cases of the tab's page; follows the background's notices, so marks and edits appear as they are saved. */
 function Cases() {
   const CaseView = useCaseView();
   const [cases, setCases] = useState<CaseRecord[] | null>(null);
@@ -151,16 +152,15 @@ function Cases() {
         setCases(r.cases);
         setUnreadable(r.unreadable);
       });
-    const onChanged = (changes: Record<string, unknown>, area: string) => {
-      if (area === 'local' && Object.keys(changes).some((k) => k.startsWith('case:'))) void load();
-    };
+    const stop = new AbortController();
     targetTab().then((tab) => {
       if (!tab) return setCases([]);
       url = tab.url;
       void load();
+      // the page's cases as a whole (some may be unreadable): asked again on any stored change
+      subscribe('cases/changed', () => void load(), stop.signal);
     });
-    browser.storage.onChanged.addListener(onChanged);
-    return () => browser.storage.onChanged.removeListener(onChanged);
+    return () => stop.abort();
   }, []);
   if (cases === null || (cases.length > 0 && !CaseView)) return null;
   return (

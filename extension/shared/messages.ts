@@ -1,5 +1,6 @@
 import type { CaseListing, QuarantineEntry, StorageUsage } from '../../src/case/listing';
 import type { CaseAssumptions, CaseRecord, CaseStatus, Mark, VideoInfo } from '../../src/case/schema';
+import type { Settings } from '../../src/case/settings';
 
 /**
  * The one typed contract for messages between background, overlay and popup. Each request names
@@ -70,4 +71,52 @@ export function envelope<K extends RequestType>(type: K, payload: RequestMap[K][
 
 export function isEnvelope(x: unknown): x is Envelope {
   return typeof x === 'object' && x !== null && (x as { channel?: unknown }).channel === 'clip-caliper';
+}
+
+/* ---- the push half: notices the background announces ---- */
+
+/**
+ * What the background tells the views when stored data changes, so that no view reads storage
+ * keys itself (background/announce.ts translates storage changes into these; shared/subscribe.ts
+ * is how a view listens). Notices are outbound only: the background never takes one as a request
+ * (their channel is not `clip-caliper`, so the router ignores them), and a view takes one only
+ * from the extension itself, never from a page's content script (subscribe.ts).
+ *
+ * Who hears what (background/notices.ts, AUDIENCE): the extension's own pages hear every kind.
+ * The overlay's isolated world in a tab's frame hears only `case/changed` for a case of its own
+ * page (the same line as the `case/get` rule in background/senders.ts) and `settings/changed`;
+ * nothing is ever sent to the page's own world.
+ */
+export interface NoticeMap {
+  /**
+   * One case was saved or went away. `record` is the stored case, migrated and validated; null
+   * when there is no readable case under that id any more (deleted, or a value that fails
+   * validation: the next read sets it aside, and the listing reports it).
+   */
+  'case/changed': { caseId: string; record: CaseRecord | null };
+  /** The stored cases changed (saved, added, removed): a listing asked for now differs. Pages only. */
+  'cases/changed': { caseIds: string[] };
+  /** Records were set aside as unreadable, or such a record went away. Pages only. */
+  'quarantine/changed': Record<string, never>;
+  /** The cases that can still be brought back (deleted this browser session) changed. Pages only. */
+  'deleted/changed': Record<string, never>;
+  /** The settings were saved (read with defaults, as loadSettings reads them). */
+  'settings/changed': { settings: Settings };
+}
+
+export type NoticeKind = keyof NoticeMap;
+
+export interface Notice<K extends NoticeKind = NoticeKind> {
+  /** Not the requests' channel: a notice can never be taken for a request, nor a request for a notice. */
+  channel: 'clip-caliper/notice';
+  kind: K;
+  payload: NoticeMap[K];
+}
+
+export function notice<K extends NoticeKind>(kind: K, payload: NoticeMap[K]): Notice<K> {
+  return { channel: 'clip-caliper/notice', kind, payload };
+}
+
+export function isNotice(x: unknown): x is Notice {
+  return typeof x === 'object' && x !== null && (x as { channel?: unknown }).channel === 'clip-caliper/notice' && typeof (x as { kind?: unknown }).kind === 'string';
 }

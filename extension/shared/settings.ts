@@ -1,5 +1,6 @@
 import { DEFAULT_SETTINGS, readSettings, SETTINGS_KEY, type Settings } from '../../src/case/settings';
 import { nativeApis } from './native';
+import { subscribe } from './subscribe';
 
 /** The settings through the browser seam: read with defaults, written whole, followed live. */
 export async function loadSettings(): Promise<Settings> {
@@ -11,13 +12,11 @@ export async function saveSettings(s: Settings): Promise<void> {
   await nativeApis().storage.local.set({ [SETTINGS_KEY]: readSettings(s) });
 }
 
+/** Follows the settings as the background announces them (background/announce.ts); returns the way to stop. */
 export function onSettingsChanged(fn: (s: Settings) => void): () => void {
-  const listener = (changes: Record<string, { newValue?: unknown }>, area: string) => {
-    if (area === 'local' && changes[SETTINGS_KEY]) fn(readSettings(changes[SETTINGS_KEY].newValue));
-  };
-  const storage = nativeApis().storage;
-  storage.onChanged.addListener(listener);
-  return () => storage.onChanged.removeListener(listener);
+  const stop = new AbortController();
+  subscribe('settings/changed', ({ settings }) => fn(settings), stop.signal);
+  return () => stop.abort();
 }
 
 export { DEFAULT_SETTINGS };

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Runtime } from 'webextension-polyfill';
 import { routeMessages, type Guard, type Handlers } from '../../extension/background/router';
-import type { RequestType } from '../../extension/shared/messages';
+import { notice, type RequestType } from '../../extension/shared/messages';
 
 /*
  * The background's router: every request passes the sender guard before its handler runs, and a
@@ -59,5 +59,18 @@ describe('routeMessages', () => {
     const listen = routeMessages(table, async () => null);
     expect(listen({ type: 'case/get' }, page)).toBeUndefined();
     expect(listen('case/get', page)).toBeUndefined();
+  });
+
+  it('never takes a notice for a request: notices are outbound only, even one a page forged with a request type as its kind', () => {
+    let asked = 0;
+    const listen = routeMessages(table, async () => {
+      asked++;
+      return null;
+    });
+    calls.length = 0;
+    expect(listen(notice('cases/changed', { caseIds: ['c1'] }), page)).toBeUndefined();
+    expect(listen({ channel: 'clip-caliper/notice', kind: 'case/get', type: 'case/get', payload: { caseId: 'c1' } }, page)).toBeUndefined();
+    expect(asked).toBe(0);
+    expect(calls).toEqual([]);
   });
 });

@@ -104,7 +104,10 @@ function obj<const E extends v.ObjectEntries>(entries: E) {
     const entry = key === undefined ? undefined : entries[key];
     return (entry && v.safeParse(entry, undefined, { abortEarly: true }).issues?.[0]?.message) ?? 'expected an object';
   };
-  return v.pipe(v.custom<Record<string, unknown>>(isObject, 'expected an object'), v.object(entries, missing), v.transform(defined));
+  const guard = v.custom<Record<string, unknown>>(isObject, 'expected an object');
+  // only an optional field can come out undefined (given as undefined): objects without one skip the pass
+  const hasOptional = Object.values(entries).some((e) => e.type === 'optional');
+  return hasOptional ? v.pipe(guard, v.object(entries, missing), v.transform(defined)) : v.pipe(guard, v.object(entries, missing));
 }
 
 /** A range lo..hi whose ends both lie in [min, max], low end first. */

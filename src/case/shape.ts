@@ -59,24 +59,36 @@ export function codePoints(s: string): number {
 
 type Issue = v.BaseIssue<unknown>;
 
-/** A number in [min, max]; JSON has no NaN or Infinity, a value in memory might. */
+/**
+ * A number in [min, max]; JSON has no NaN or Infinity, a value in memory might. One check for
+ * finiteness and both ends (not valibot's finite, minValue and maxValue in turn): a mark holds a
+ * dozen numbers and a case ten thousand marks, so each step per number shows in the import's time.
+ */
 function num(min: number, max: number, description?: string) {
-  const range = (i: Issue) => `expected ${min} to ${max}, got ${String(i.input)}`;
-  const s = v.pipe(v.number('expected a finite number'), v.finite('expected a finite number'), v.minValue(min, range), v.maxValue(max, range));
-  return description === undefined ? s : v.pipe(s, v.description(description));
+  const within = withJson(
+    v.check(
+      (n: number) => Number.isFinite(n) && n >= min && n <= max,
+      (i: Issue) => (Number.isFinite(i.input) ? `expected ${min} to ${max}, got ${String(i.input)}` : 'expected a finite number'),
+    ),
+    { minimum: min, maximum: max },
+  );
+  const number = v.number('expected a finite number');
+  return description === undefined ? v.pipe(number, within) : v.pipe(number, within, v.description(description));
 }
 
 /** Text of min to max characters (code points). */
 function text(min: number, max: number, description?: string) {
   const length = withJson(
     v.check((s: string) => {
+      // code points never outnumber UTF-16 units, and a non-empty string has one: count only when it could matter
+      if (min <= 1 && s.length >= min && s.length <= max) return true;
       const n = codePoints(s);
       return n >= min && n <= max;
     }, (i: Issue) => `expected ${min} to ${max} characters, got ${codePoints(i.input as string)}`),
     { minLength: min, maxLength: max },
   );
-  const s = v.pipe(v.string('expected text'), length);
-  return description === undefined ? s : v.pipe(s, v.description(description));
+  const string = v.string('expected text');
+  return description === undefined ? v.pipe(string, length) : v.pipe(string, length, v.description(description));
 }
 
 function oneOf<const T extends readonly [string, ...string[]]>(options: T, description: string, withGot = false) {
@@ -365,8 +377,10 @@ export function pointsWithinVideo(
   width: number,
   height: number,
 ): { steps: [Step, ...Step[]]; message: string } | undefined {
-  for (const [i, m] of marks.entries()) {
-    for (const [j, p] of m.points.entries()) {
+  for (let i = 0; i < marks.length; i++) {
+    const points = marks[i]!.points;
+    for (let j = 0; j < points.length; j++) {
+      const p = points[j]!;
       if (p.x < -width || p.x > 2 * width) return { steps: [i, 'points', j, 'x'], message: `expected ${-width} to ${2 * width}, got ${p.x}` };
       if (p.y < -height || p.y > 2 * height) return { steps: [i, 'points', j, 'y'], message: `expected ${-height} to ${2 * height}, got ${p.y}` };
     }

@@ -1,15 +1,18 @@
+import { CaseFormatError } from './format-error';
 import { readCaseRecord } from './migrate';
 import { MAX_FILE_NESTING, checkNesting } from './nesting';
 import { SCHEMA_VERSION, type CaseRecord } from './schema';
-import { CaseFormatError } from './validate';
+import { CASE_FILE_FORMAT, MAX_CASE_FILE_BYTES, caseFileWrapper } from './shape';
+import { readAgainst } from './validate';
+
+export { CASE_FILE_FORMAT, MAX_CASE_FILE_BYTES, MAX_CASES_PER_FILE } from './shape';
 
 /**
  * The case file a reviewer hands on: one case (`case`) or many (`cases`), wrapped so that a reader
  * can tell what it holds and which schema it follows. One case alone reproduces every figure
  * (analysis.ts, summary.ts); `npm run solve` reads a file of one case. The file's shape is
- * documented field by field in case-file.schema.json.
+ * defined in shape.ts (caseFileShape), from which case-file.schema.json is made.
  */
-export const CASE_FILE_FORMAT = 'clip-caliper-case';
 
 export interface CaseFile {
   format: typeof CASE_FILE_FORMAT;
@@ -35,17 +38,9 @@ export function toCasesFile(cases: readonly CaseRecord[], toolVersion: string): 
 }
 
 /**
- * Limits that stop absurd files before they cost anything. 20 MiB is twice the whole local
- * storage quota (10 MiB), so no file that could be imported is refused for its size alone.
- */
-export const MAX_CASE_FILE_BYTES = 20 * 1024 * 1024;
-/** Five times the thousand cases the log is built to stay quick with. */
-export const MAX_CASES_PER_FILE = 5_000;
-
-/**
  * Reads a case file's text into its cases: JSON only (nothing in it is ever run or rendered),
  * nested no deeper than MAX_FILE_NESTING, each record migrated from its own schema version, and
- * the whole file validated before any case is returned (fields the schema does not list are
+ * the whole file validated before any case is returned (fields the definition does not list are
  * dropped); the error names the first bad field by its path.
  */
 export function parseCaseFileAll(text: string): CaseRecord[] {
@@ -62,28 +57,10 @@ export function parseCaseFileAll(text: string): CaseRecord[] {
   // JSON.parse builds deep values without recursion (V8's parser keeps its own stack); what
   // reads them after may recurse, so the depth is bounded here first
   checkNesting(raw, 'file', MAX_FILE_NESTING);
-  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw new CaseFormatError('file', 'expected an object');
-  const o = raw as Record<string, unknown>;
-  if (o.format !== CASE_FILE_FORMAT) throw new CaseFormatError('file.format', `expected "${CASE_FILE_FORMAT}"`);
-  if (typeof o.schema !== 'number' || !Number.isInteger(o.schema) || o.schema < 1) {
-    throw new CaseFormatError('file.schema', `expected a whole number from 1 to ${SCHEMA_VERSION}`);
-  }
-  if (o.schema > SCHEMA_VERSION) {
-    throw new CaseFormatError('file.schema', `version ${o.schema} was written by a newer Clip Caliper; this one reads versions 1 to ${SCHEMA_VERSION}`);
-  }
-  if (o.exportedBy !== undefined && (typeof o.exportedBy !== 'string' || o.exportedBy.length > 200)) {
-    throw new CaseFormatError('file.exportedBy', 'expected text of at most 200 characters');
-  }
-  const hasOne = 'case' in o;
-  const hasMany = 'cases' in o;
-  if (hasOne === hasMany) throw new CaseFormatError('file', 'expected either "case" (one case) or "cases" (a list), not both or neither');
-  if (hasOne) return [readCaseRecord(o.case, 'file.case')];
-  if (!Array.isArray(o.cases)) throw new CaseFormatError('file.cases', 'expected a list');
-  if (o.cases.length === 0) throw new CaseFormatError('file.cases', 'expected at least one case');
-  if (o.cases.length > MAX_CASES_PER_FILE) {
-    throw new CaseFormatError('file.cases', `expected at most ${MAX_CASES_PER_FILE} cases, got ${o.cases.length}`);
-  }
-  return o.cases.map((c, i) => readCaseRecord(c, `file.cases[${i}]`));
+  // the file's own fields (format, version, one case or a list); each record is read after, from its own version
+  const o = readAgainst(caseFileWrapper, raw, 'file');
+  if ('case' in o) return [readCaseRecord(o.case, 'file.case')];
+  return (o.cases ?? []).map((c, i) => readCaseRecord(c, `file.cases[${i}]`));
 }
 
 /**

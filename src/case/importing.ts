@@ -1,5 +1,5 @@
 import { MAX_HISTORY, type CaseRecord, type CaseVersion } from './schema';
-import { CaseFormatError } from './validate';
+import { CaseFormatError } from './format-error';
 
 /*
  * Import and export, the pure part: how a validated file merges into what is stored, and what an

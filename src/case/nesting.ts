@@ -1,4 +1,4 @@
-import { CaseFormatError } from './validate';
+import { CaseFormatError } from './format-error';
 
 /*
  * How deep a case file may nest, checked before anything walks it by recursion. A file the

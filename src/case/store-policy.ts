@@ -1,6 +1,6 @@
 import { utf8Length } from './casefile';
 import type { QuarantineEntry, StorageUsage } from './listing';
-import { CaseFormatError } from './validate';
+import { CaseFormatError } from './format-error';
 
 /*
  * The case store's rules, kept pure so they are tested without a browser: which keys hold what,

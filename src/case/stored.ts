@@ -1,7 +1,7 @@
 import { readCaseRecord } from './migrate';
 import { caseKey, type CaseRecord } from './schema';
 import { CASE_PREFIX } from './store-policy';
-import { CaseFormatError } from './validate';
+import { CaseFormatError } from './format-error';
 
 /**
  * Reads a record as stored under `key`: migrated and validated (readCaseRecord), and kept under

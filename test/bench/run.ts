@@ -5,6 +5,7 @@ import { importBench } from './import';
 import { logBench } from './log';
 import { largeCaseBench } from './large-case';
 import { popupLargeBench } from './popup-large';
+import { validateBench } from './validate';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -24,6 +25,7 @@ console.log(`engine benchmark on ${process.version}, ${(await import('node:os'))
 print(engineBench());
 caseBench();
 largeCaseBench();
+validateBench();
 await importBench();
 
 await overlayBench();

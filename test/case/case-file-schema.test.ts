@@ -10,16 +10,17 @@ import { LANE_CYCLES } from '../../src/engine/lanes';
 import { recordArb as currentRecordArb } from './arbitraries';
 
 /*
- * The case file's JSON Schema (src/case/case-file.schema.json, draft 2020-12) must agree with the
- * reader. No schema library is installed, so a small interpreter of the keywords the schema uses
- * sits below, written from JSON Schema 2020-12 Core and Validation (sections on $ref, allOf,
- * oneOf, if/then, type, const, enum, the numeric, string, array and object keywords). It refuses
- * any keyword it does not know, so the schema cannot quietly grow one that nothing checks.
+ * The case file's JSON Schema (src/case/case-file.schema.json, draft 2020-12, made from shape.ts)
+ * must agree with the reader. A small interpreter of the keywords the schema uses sits below,
+ * written from JSON Schema 2020-12 Core and Validation (sections on $ref, allOf, anyOf, oneOf,
+ * if/then, type, const, enum, the numeric, string, array and object keywords). It refuses any
+ * keyword it does not know, so the schema cannot quietly grow one that nothing checks.
+ * json-schema.test.ts checks the same file with a general-purpose validator (ajv).
  */
 type Schema = boolean | Record<string, unknown>;
 const root = JSON.parse(readFileSync('src/case/case-file.schema.json', 'utf8')) as Record<string, unknown>;
 const ANNOTATIONS = new Set(['$schema', '$id', 'title', 'description', '$defs']);
-const KNOWN = new Set([...ANNOTATIONS, 'type', 'const', 'enum', 'minimum', 'maximum', 'minLength', 'maxLength', 'pattern', 'items', 'minItems', 'maxItems', 'uniqueItems', 'required', 'properties', '$ref', 'allOf', 'oneOf', 'if', 'then']);
+const KNOWN = new Set([...ANNOTATIONS, 'type', 'const', 'enum', 'minimum', 'maximum', 'minLength', 'maxLength', 'pattern', 'items', 'minItems', 'maxItems', 'uniqueItems', 'required', 'properties', '$ref', 'allOf', 'anyOf', 'oneOf', 'if', 'then']);
 
 const canon = (x: unknown): string =>
   Array.isArray(x) ? `[${x.map(canon).join(',')}]` : typeof x === 'object' && x !== null ? `{${Object.keys(x).sort().map((k) => `${JSON.stringify(k)}:${canon((x as Record<string, unknown>)[k])}`).join(',')}}` : JSON.stringify(x);
@@ -82,6 +83,7 @@ function valid(s: Schema, x: unknown): boolean {
     }
   }
   if (s.allOf !== undefined && !(s.allOf as Schema[]).every((sub) => valid(sub, x))) return false;
+  if (s.anyOf !== undefined && !(s.anyOf as Schema[]).some((sub) => valid(sub, x))) return false;
   if (s.oneOf !== undefined && (s.oneOf as Schema[]).filter((sub) => valid(sub, x)).length !== 1) return false;
   if (s.if !== undefined && valid(s.if as Schema, x) && s.then !== undefined && !valid(s.then as Schema, x)) return false;
   return true;
@@ -131,7 +133,8 @@ function mutateAt(rootValue: unknown, pick: number, value: unknown): { mutated: 
   let at = copy;
   for (const k of path.slice(0, -1)) at = at[k] as Record<string | number, unknown>;
   const last = path.at(-1)!;
-  if (value === undefined) delete at[last];
+  // a list item removed is spliced out: JSON has no holes, and a hole is no case file
+  if (value === undefined) Array.isArray(at) ? at.splice(last as number, 1) : delete at[last];
   else if (Array.isArray(value) && value.length === 1 && Array.isArray(at)) at.push(at[last as number]); // a repeated item
   else at[last] = value;
   return { mutated: copy, path: path.join('.') };
@@ -140,11 +143,13 @@ function mutateAt(rootValue: unknown, pick: number, value: unknown): { mutated: 
 describe('the case file JSON Schema (draft 2020-12)', () => {
   it('is draft 2020-12, describes every field, and lists the same words as the code', () => {
     expect(root.$schema).toBe('https://json-schema.org/draft/2020-12/schema');
-    const defs = root.$defs as Record<string, { properties?: Record<string, { description?: string; $ref?: string }> }>;
+    const defs = root.$defs as Record<string, { properties?: Record<string, false | { description?: string; $ref?: string }> }>;
     for (const [name, def] of Object.entries(defs)) {
-      for (const [field, sub] of Object.entries(def.properties ?? {})) expect(sub.description ?? sub.$ref, `${name}.${field}`).toBeTruthy();
+      // `false` is no field: it forbids one (an earlier version's own history)
+      for (const [field, sub] of Object.entries(def.properties ?? {})) if (sub !== false) expect(sub.description ?? sub.$ref, `${name}.${field}`).toBeTruthy();
     }
-    const body = defs.body!.properties as Record<string, { enum?: unknown[] }>;
+    expect(defs.version!.properties!.history).toBe(false);
+    const body = defs.record!.properties as Record<string, { enum?: unknown[] }>;
     expect(body.status!.enum).toEqual([...CASE_STATUSES]);
     expect((defs.mark!.properties as Record<string, { enum?: unknown[] }>).kind!.enum).toEqual([...MARK_KINDS]);
     expect((defs.assumptions!.properties as Record<string, { enum?: unknown[] }>).laneCycleId!.enum).toEqual(LANE_CYCLES.map((l) => l.id));

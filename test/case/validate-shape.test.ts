@@ -91,6 +91,35 @@ describe('a read keeps the known fields only', () => {
     expect(failure(() => readCaseRecord(r)).message).toBe('case.history[0].history: an earlier version holds no history of its own');
   });
 
+  it('a number names its allowed range; Infinity and NaN (never JSON, RFC 8259 section 6, but possible in memory) are not finite', () => {
+    for (const bad of [Infinity, -Infinity, NaN]) {
+      const r = v2();
+      (r.marks as Obj[])[0]!.t = bad;
+      expect(failure(() => readCaseRecord(r)).message).toBe('case.marks[0].t: expected a finite number');
+    }
+    const r = v2();
+    (r.marks as Obj[])[0]!.edgeSigmaPx = 50.5;
+    expect(failure(() => readCaseRecord(r)).message).toBe('case.marks[0].edgeSigmaPx: expected 0 to 50, got 50.5');
+    const s = v2();
+    s.notes = '😀'.repeat(20_000); // 40 000 UTF-16 units, 20 000 characters: within
+    expect(readCaseRecord(s).notes).toHaveLength(40_000);
+    s.notes = `${s.notes as string}x`;
+    expect(failure(() => readCaseRecord(s)).message).toBe('case.notes: expected 0 to 20000 characters, got 20001');
+  });
+
+  it('a list with a hole (a value in memory, never JSON) is refused at the missing item, not stored with the hole', () => {
+    // the hand-written reader mapped over lists, which skips holes: it returned the hole, and
+    // JSON.stringify then stored it as null, a record the next read refuses
+    const r = v2();
+    delete (r.marks as unknown[])[1];
+    expect((r.marks as unknown[]).length).toBe(3);
+    expect(failure(() => readCaseRecord(r)).message).toBe('case.marks[1]: expected an object');
+    const t = v2();
+    t.tags = ['night', 'dusk'];
+    delete (t.tags as unknown[])[0];
+    expect(failure(() => readCaseRecord(t)).message).toBe('case.tags[0]: expected text');
+  });
+
   it('a known field of the wrong type inside the mapping is refused, naming its path; an absent one is fine', () => {
     const r = v2();
     ((r.marks as Obj[])[1]!.mapping as Obj).scale = 'big';

@@ -1,85 +1,59 @@
 import { describe, expect, it } from 'vitest';
 import { watchCase, type CaseWatchDeps } from '../../../extension/overlay/case-watch';
+import type { NoticeKind, NoticeMap } from '../../../extension/shared/messages';
 import { newCase } from '../../../src/case/marks';
-import { caseKey, type CaseRecord } from '../../../src/case/schema';
+import type { CaseRecord } from '../../../src/case/schema';
 
 /*
- * The overlay follows its stored case while the popup or another tab changes it. The storage change
- * event is the one documented for the WebExtensions storage API (storage.onChanged: a map of the
- * keys changed to their old and new values, and the area's name, "local" here); the reads back may
- * settle in any order, and only the latest counts (common practice for racing replies).
+ * The overlay follows its stored case while the popup or another tab changes it, from the
+ * background's `case/changed` notices (shared/messages.ts NoticeMap; background/announce.ts sends
+ * them in the order the changes were stored). A stand-in for subscribe() delivers notices as the
+ * runtime would: to every handler of that kind, until its signal aborts.
  */
-type Listener = (changes: Record<string, { newValue?: unknown }>, area: string) => void;
-
-function fakeBrowser() {
-  const listeners = new Set<Listener>();
-  const reads: { caseId: string; settle: (c: CaseRecord | null) => void }[] = [];
+function fakeNotices() {
+  const handlers: { kind: NoticeKind; fn: (p: never) => void; signal: AbortSignal }[] = [];
   const deps: CaseWatchDeps = {
-    onChanged: { addListener: (fn) => void listeners.add(fn), removeListener: (fn) => void listeners.delete(fn) },
-    read: (caseId) => new Promise((settle) => reads.push({ caseId, settle })),
+    subscribe: (kind, fn, signal) => {
+      if (!signal.aborted) handlers.push({ kind, fn: fn as (p: never) => void, signal });
+    },
   };
-  // a removed key comes with its old value only
-  const change = (key: string, area = 'local', removed = false) => {
-    for (const fn of listeners) fn({ [key]: removed ? {} : { newValue: {} } }, area);
+  const announce = <K extends NoticeKind>(kind: K, payload: NoticeMap[K]) => {
+    for (const h of handlers) if (h.kind === kind && !h.signal.aborted) (h.fn as (p: NoticeMap[K]) => void)(payload);
   };
-  return { deps, listeners, reads, change };
+  return { deps, handlers, announce };
 }
 
-const version = (n: number): CaseRecord => ({ ...newCase('c1', { pageUrl: 'http://127.0.0.1/x', pageTitle: 'invented', src: '', width: 640, height: 360, duration: 2 }, '0.1.0', n), notes: `version ${n}` });
-const tick = () => new Promise((r) => setTimeout(r, 0));
+const version = (id: string, n: number): CaseRecord => ({ ...newCase(id, { pageUrl: 'http://127.0.0.1/x', pageTitle: 'invented', src: '', width: 640, height: 360, duration: 2 }, '0.1.0', n), notes: `version ${n}` });
 
 describe('watchCase', () => {
-  it("reads its own case back when its key changes in local storage, and nothing else's", async () => {
-    const b = fakeBrowser();
-    const seen: CaseRecord[] = [];
-    watchCase('c1', (c) => seen.push(c), new AbortController().signal, b.deps);
-    b.change(caseKey('c2'));
-    b.change(caseKey('c1'), 'sync');
-    b.change(caseKey('c1'), 'local', true); // removed: nothing to follow
-    expect(b.reads).toHaveLength(0);
-    b.change(caseKey('c1'));
-    expect(b.reads.map((r) => r.caseId)).toEqual(['c1']);
-    b.reads[0]!.settle(version(1));
-    await tick();
-    expect(seen.map((c) => c.notes)).toEqual(['version 1']);
-  });
-
-  it('takes only the latest read when the replies arrive out of order', async () => {
-    const b = fakeBrowser();
+  it("takes each announced version of its own case, in order, and nothing of another case's", () => {
+    const b = fakeNotices();
     const seen: string[] = [];
     watchCase('c1', (c) => seen.push(c.notes), new AbortController().signal, b.deps);
-    b.change(caseKey('c1'));
-    b.change(caseKey('c1'));
-    b.reads[1]!.settle(version(2));
-    await tick();
-    b.reads[0]!.settle(version(1));
-    await tick();
-    expect(seen).toEqual(['version 2']);
+    expect(b.handlers.map((h) => h.kind)).toEqual(['case/changed']);
+    b.announce('case/changed', { caseId: 'c2', record: version('c2', 1) });
+    b.announce('case/changed', { caseId: 'c1', record: version('c1', 1) });
+    b.announce('case/changed', { caseId: 'c1', record: version('c1', 2) });
+    expect(seen).toEqual(['version 1', 'version 2']);
   });
 
-  it('stops listening when its signal aborts, and drops a read still on its way', async () => {
-    const b = fakeBrowser();
-    const ac = new AbortController();
+  it('a removed or unreadable case (no record) changes nothing', () => {
+    const b = fakeNotices();
     const seen: string[] = [];
-    watchCase('c1', (c) => seen.push(c.notes), ac.signal, b.deps);
-    b.change(caseKey('c1'));
-    ac.abort();
-    expect(b.listeners.size).toBe(0);
-    b.reads[0]!.settle(version(1));
-    await tick();
+    watchCase('c1', (c) => seen.push(c.notes), new AbortController().signal, b.deps);
+    b.announce('case/changed', { caseId: 'c1', record: null });
     expect(seen).toEqual([]);
   });
 
-  it('a failed or empty read changes nothing', async () => {
-    const b = fakeBrowser();
+  it('stops when its signal aborts, and never starts on an aborted one', () => {
+    const b = fakeNotices();
+    const ac = new AbortController();
     const seen: string[] = [];
-    const failing: CaseWatchDeps = { ...b.deps, read: () => Promise.reject(new Error('worker asleep')) };
-    watchCase('c1', (c) => seen.push(c.notes), new AbortController().signal, failing);
-    b.change(caseKey('c1'));
-    watchCase('c1', (c) => seen.push(c.notes), new AbortController().signal, b.deps);
-    b.change(caseKey('c1'));
-    b.reads[0]!.settle(null);
-    await tick();
+    watchCase('c1', (c) => seen.push(c.notes), ac.signal, b.deps);
+    ac.abort();
+    b.announce('case/changed', { caseId: 'c1', record: version('c1', 1) });
+    watchCase('c1', (c) => seen.push(c.notes), ac.signal, b.deps);
+    b.announce('case/changed', { caseId: 'c1', record: version('c1', 2) });
     expect(seen).toEqual([]);
   });
 });

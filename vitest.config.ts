@@ -12,6 +12,9 @@ export default defineConfig({
           // pure modules only: test/extension holds tests of the shell's DOM-free helpers
           include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts', 'test/extension/**/*.test.ts'],
           environment: 'node',
+          // a guard against a hang, not a speed target (those are in npm run bench): the property
+          // and coverage tests take seconds, and many times that on a busy two-core machine
+          testTimeout: 30_000,
         },
       },
       {

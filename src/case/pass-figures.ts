@@ -1,6 +1,6 @@
 import { observationWindow } from '../engine/speed';
 import type { EngineAssumptions } from './assumptions';
-import type { CaseAnalysis, CaseWarning, PassSummary, TrackSummary } from './analysis';
+import type { CaseAnalysis, CaseWarning, PassSummary, TrackSummary } from './analysis-types';
 import type { FieldOfView } from './pass-scene';
 import type { Mark } from './schema';
 import type { PassReading } from '../engine/pass-series';

@@ -11,7 +11,7 @@ import {
   MAX_TAGS,
   POINTS_PER_KIND,
   SCHEMA_VERSION,
-} from './schema';
+} from './case-limits';
 import { JSON_EXTRA, at, codePoints, describe, num, obj, oneOf, range, text, withJson, type Issue, type Step } from './shape-parts';
 
 export { JSON_EXTRA, codePoints, describe };

@@ -5,10 +5,7 @@
  * this way. Errors name the field.
  */
 import { readFileSync, statSync } from 'node:fs';
-import { analyseCase } from '../../src/case/analysis';
-import { MAX_CASE_FILE_BYTES, parseCaseFile } from '../../src/case/casefile';
-import { summaryText } from '../../src/case/summary';
-import type { UnitSystem } from '../../src/engine/units';
+import { analyseCase, MAX_CASE_FILE_BYTES, parseCaseFile, summaryText, type UnitSystem } from '../../src/case';
 
 const args = process.argv.slice(2);
 const file = args.find((a) => !a.startsWith('--') && args[args.indexOf(a) - 1] !== '--units');

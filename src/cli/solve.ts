@@ -3,14 +3,19 @@
  * Node, with no browser, and prints the same summary text as the popup copies (byte for byte, for
  * the same units), or every result with its interval as JSON. A second reviewer checks a shared case
  * this way. Errors name the field.
+ *
+ * Never run from TypeScript: `npm run build` bundles it once to dist-cli/solve.mjs (bundle.mjs) and
+ * `npm run solve` runs that bundle (run.mjs), rebuilding it only when a source changed. Through a
+ * loader every imported binding becomes a getter call and the whole engine is compiled on each start.
  */
 import { readFileSync, statSync } from 'node:fs';
-import { analyseCase, MAX_CASE_FILE_BYTES, parseCaseFile, summaryText, type UnitSystem } from '../../src/case';
+import { analyseCase, MAX_CASE_FILE_BYTES, parseCaseFile, summaryText, type UnitSystem } from '../case';
+// bundled in: the bundle reads no package.json at run time, wherever it lies
+import pkg from '../../package.json';
 
 const args = process.argv.slice(2);
 const file = args.find((a) => !a.startsWith('--') && args[args.indexOf(a) - 1] !== '--units');
 const units = (args.includes('--units') ? args[args.indexOf('--units') + 1] : 'metric') as UnitSystem;
-const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
 
 function fail(message: string): never {
   process.stderr.write(`solve: ${message}\n`);

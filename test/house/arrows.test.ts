@@ -76,7 +76,10 @@ const ALLOWED: readonly string[] = [
   'extension/overlay/format.ts -> src/engine/units.ts',
   'extension/overlay/keys.ts -> src/case/schema.ts',
   'extension/overlay/keys.ts -> src/case/size-match.ts',
+  'extension/overlay/live-figures.ts -> src/case/assumptions.ts',
+  'extension/overlay/live-figures.ts -> src/case/camera-fields.ts',
   'extension/overlay/live-figures.ts -> src/case/frame-figures.ts',
+  'extension/overlay/live-figures.ts -> src/case/frames.ts',
   'extension/overlay/live-figures.ts -> src/case/schema.ts',
   'extension/overlay/mapping.ts -> src/case/schema.ts',
   'extension/overlay/mapping.ts -> src/engine/display.ts',
@@ -90,7 +93,6 @@ const ALLOWED: readonly string[] = [
   'extension/overlay/pointer.ts -> src/case/schema.ts',
   'extension/overlay/readout.ts -> src/case/assumptions.ts',
   'extension/overlay/readout.ts -> src/case/frame-figures.ts',
-  'extension/overlay/readout.ts -> src/case/frames.ts',
   'extension/overlay/readout.ts -> src/case/schema.ts',
   'extension/overlay/readout.ts -> src/case/size-match.ts',
   'extension/overlay/saving.ts -> src/case/schema.ts',
@@ -106,27 +108,52 @@ const ALLOWED: readonly string[] = [
   'extension/overlay/tools.ts -> src/case/schema.ts',
   'extension/overlay/tools.ts -> src/case/size-match.ts',
   // the case log and the popup's page (being split)
-  'extension/popup/log-view.tsx -> src/case/analysis.ts',
-  'extension/popup/log-view.tsx -> src/case/casefile.ts',
-  'extension/popup/log-view.tsx -> src/case/csv.ts',
-  'extension/popup/log-view.tsx -> src/case/headline.ts',
-  'extension/popup/log-view.tsx -> src/case/importing.ts',
-  'extension/popup/log-view.tsx -> src/case/listing.ts',
-  'extension/popup/log-view.tsx -> src/case/log.ts',
-  'extension/popup/log-view.tsx -> src/case/schema.ts',
-  'extension/popup/log-view.tsx -> src/case/store-policy.ts',
-  'extension/popup/log-view.tsx -> src/case/summary.ts',
-  'extension/popup/log-view.tsx -> src/engine/units.ts',
+  'extension/popup/log/annotate.tsx -> src/case/listing.ts',
+  'extension/popup/log/annotate.tsx -> src/case/log.ts',
+  'extension/popup/log/annotate.tsx -> src/case/schema.ts',
+  'extension/popup/log/case-list.tsx -> src/case/listing.ts',
+  'extension/popup/log/case-list.tsx -> src/case/log.ts',
+  'extension/popup/log/case-list.tsx -> src/engine/units.ts',
+  'extension/popup/log/detail.tsx -> src/case/analysis.ts',
+  'extension/popup/log/detail.tsx -> src/case/csv.ts',
+  'extension/popup/log/detail.tsx -> src/case/importing.ts',
+  'extension/popup/log/detail.tsx -> src/case/listing.ts',
+  'extension/popup/log/detail.tsx -> src/case/log.ts',
+  'extension/popup/log/detail.tsx -> src/case/schema.ts',
+  'extension/popup/log/detail.tsx -> src/case/summary.ts',
+  'extension/popup/log/filters.tsx -> src/case/log.ts',
+  'extension/popup/log/filters.tsx -> src/case/schema.ts',
+  'extension/popup/log/headline-cell.tsx -> src/case/listing.ts',
+  'extension/popup/log/headline-cell.tsx -> src/engine/units.ts',
+  'extension/popup/log/headlines.ts -> src/case/headline.ts',
+  'extension/popup/log/headlines.ts -> src/case/listing.ts',
+  'extension/popup/log/headlines.ts -> src/case/log.ts',
+  'extension/popup/log/headlines.ts -> src/engine/units.ts',
+  'extension/popup/log/import-export.tsx -> src/case/casefile.ts',
+  'extension/popup/log/index.tsx -> src/case/listing.ts',
+  'extension/popup/log/index.tsx -> src/case/log.ts',
+  'extension/popup/log/query.ts -> src/case/log.ts',
+  'extension/popup/log/query.ts -> src/case/schema.ts',
+  'extension/popup/log/query.ts -> src/engine/errors.ts',
+  'extension/popup/log/storage.tsx -> src/case/listing.ts',
+  'extension/popup/log/system.ts -> src/engine/units.ts',
+  'extension/popup/log/text.ts -> src/case/schema.ts',
+  'extension/popup/log/use-listing.ts -> src/case/listing.ts',
   'extension/popup/main.tsx -> src/case/schema.ts',
   'extension/popup/main.tsx -> src/case/settings.ts',
-  // the background: the case store's wiring, its index and the sender rules
+  // the background: the case store's wiring, the notices and the sender rules
   'extension/background/cases.ts -> src/case/store/case-store.ts',
   'extension/background/cases.ts -> src/case/store/port.ts',
   'extension/background/index.ts -> src/case/schema.ts',
+  'extension/background/notices.ts -> src/case/schema.ts',
+  'extension/background/notices.ts -> src/case/settings.ts',
+  'extension/background/notices.ts -> src/case/store-policy.ts',
+  'extension/background/notices.ts -> src/case/stored.ts',
   'extension/background/senders.ts -> src/case/ids.ts',
   // shared pieces outside this change
   'extension/shared/messages.ts -> src/case/listing.ts',
   'extension/shared/messages.ts -> src/case/schema.ts',
+  'extension/shared/messages.ts -> src/case/settings.ts',
   'extension/shared/settings.ts -> src/case/settings.ts',
 ];
 
@@ -246,5 +273,48 @@ describe('the arrows of this source tree', () => {
   it('every allowed arrow still exists (the allow-list only shrinks)', () => {
     const present = new Set(violations(edges).map((v) => v.edge));
     expect(ALLOWED.filter((a) => !present.has(a))).toEqual([]);
+  });
+});
+
+/*
+ * package.json's "sideEffects" lets the bundler drop a module none of whose exports is used: that is
+ * what keeps a page importing one item of the door from loading the rest. A module imported only
+ * for what it does on load (`import './announce'`) must therefore be listed there, or the build
+ * leaves it out without a word (the background's announcer was, until ./extension/** was listed).
+ */
+function sideEffectPatterns(): RegExp[] {
+  const pkg = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')) as { sideEffects?: string[] };
+  // webpack's and Vite's reading: a pattern without a slash matches the name anywhere
+  return (pkg.sideEffects ?? []).map((p) => {
+    const glob = p.includes('/') ? p.replace(/^\.\//, '') : `**/${p}`;
+    const re = glob
+      .split(/(\*\*\/|\*\*|\*)/)
+      .map((part) => (part === '**/' ? '(?:.*/)?' : part === '**' ? '.*' : part === '*' ? '[^/]*' : part.replace(/[.+?^${}()|[\]\\]/g, '\\$&')))
+      .join('');
+    return new RegExp(`^${re}$`);
+  });
+}
+
+/** The files a source imports only for their side effects (`import './x'`, nothing bound). */
+function bareImports(from: string): string[] {
+  const text = readFileSync(join(ROOT, from), 'utf8');
+  return [...text.matchAll(/^\s*import\s*['"]([^'"]+)['"]/gm)].map((m) => resolveSpecifier(from, m[1]!)).filter((t): t is string => t !== null);
+}
+
+describe('modules imported for their side effects', () => {
+  const patterns = sideEffectPatterns();
+  const kept = (file: string) => patterns.some((p) => p.test(file));
+
+  it('reads the patterns as the bundler does', () => {
+    expect(kept('extension/popup/log.css')).toBe(true);
+    expect(kept('extension/background/announce.ts')).toBe(true);
+    expect(kept('src/case/index.ts')).toBe(false);
+    expect(kept('src/engine/units.ts')).toBe(false);
+  });
+
+  it('are all kept by package.json sideEffects (the bundle would drop them otherwise)', () => {
+    const bare = FILES.flatMap((from) => bareImports(from).map((to) => ({ from, to })));
+    expect(bare.map((e) => e.to)).toContain('extension/background/announce.ts');
+    expect(bare.filter((e) => !kept(e.to))).toEqual([]);
   });
 });

@@ -5,8 +5,8 @@
  * sentences) pass through too: the extension never reaches into src/engine.
  *
  * Named re-exports only, no `export *`: the list is the contract, and a bundle keeps just what a
- * page imports (package.json says the sources have no side effects, so a page that takes only a
- * band parser does not also load the units layer's mathjs). test/house/arrows.test.ts holds the
+ * page imports (package.json's sideEffects marks src/ free of side effects, so a page that takes
+ * only a band parser does not load the analysis too). test/house/arrows.test.ts holds the
  * direction of imports.
  */
 
@@ -31,6 +31,8 @@ export type { SummaryFormat } from './summary';
 
 // case files
 export { MAX_CASE_FILE_BYTES, parseCaseFile, toCaseFile } from './casefile';
+// build-time only (npm run schema): no page imports it, so no bundle carries it
+export { caseFileJsonSchemaText } from './json-schema';
 
 // engine items the extension shows, passed through this door
 export { hfovFromEquivalentFocal } from '../engine/camera';

@@ -10,8 +10,8 @@
  */
 import { readFileSync, statSync } from 'node:fs';
 import { analyseCase, MAX_CASE_FILE_BYTES, parseCaseFile, summaryText, type UnitSystem } from '../case';
-// bundled in: the bundle reads no package.json at run time, wherever it lies
-import pkg from '../../package.json';
+// bundled in (only this field): the bundle reads no package.json at run time, wherever it lies
+import { version } from '../../package.json';
 
 const args = process.argv.slice(2);
 const file = args.find((a) => !a.startsWith('--') && args[args.indexOf(a) - 1] !== '--units');
@@ -35,9 +35,9 @@ try {
   const c = parseCaseFile(readFileSync(file, 'utf8'));
   const analysis = analyseCase(c);
   if (args.includes('--json')) {
-    process.stdout.write(`${JSON.stringify({ case: c.id, toolVersion: pkg.version, analysis }, (k, v) => (k === 'objectMark' || k === 'landmarkMark' ? v?.id ?? null : v), 2)}\n`);
+    process.stdout.write(`${JSON.stringify({ case: c.id, toolVersion: version, analysis }, (k, v) => (k === 'objectMark' || k === 'landmarkMark' ? v?.id ?? null : v), 2)}\n`);
   } else {
-    process.stdout.write(summaryText(c, analysis, { format: 'text', system: units, toolVersion: pkg.version }));
+    process.stdout.write(summaryText(c, analysis, { format: 'text', system: units, toolVersion: version }));
   }
 } catch (e) {
   fail((e as Error).message);

@@ -9,8 +9,9 @@ export default defineConfig({
       {
         test: {
           name: 'unit',
-          // pure modules only: test/extension holds tests of the shell's DOM-free helpers
-          include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts', 'test/extension/**/*.test.ts'],
+          // pure modules only: test/extension holds tests of the shell's DOM-free helpers, test/cli the
+          // recompute command run as a process, test/house the rules of the source tree itself
+          include: ['test/engine/**/*.test.ts', 'test/case/**/*.test.ts', 'test/extension/**/*.test.ts', 'test/cli/**/*.test.ts', 'test/house/**/*.test.ts'],
           environment: 'node',
           // a guard against a hang, not a speed target (those are in npm run bench): the property
           // and coverage tests take seconds, and many times that on a busy two-core machine

@@ -1,7 +1,7 @@
 import { SCHEMA_VERSION } from '../../src/case/schema';
 import { browser, extensionVersion, message } from '../shared/browser';
 import { store } from './cases';
-import { injectOverlay, type CallUpOptions } from '../shared/call-up';
+import { injectOverlay, type CallUpOptions } from './call-up';
 import './announce';
 import { foreignFrameOrigins, injectIntoOrigin } from './inject';
 import { routeMessages, type Guard } from './router';

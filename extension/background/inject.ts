@@ -1,5 +1,5 @@
 import { browser } from '../shared/browser';
-import { injectOverlay } from '../shared/call-up';
+import { injectOverlay } from './call-up';
 
 /** Origins of the tab's frames that the top document cannot read (listed from the top frame). */
 export async function foreignFrameOrigins(tabId: number): Promise<string[]> {

@@ -1,8 +1,6 @@
 import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
-import { parseBand } from '../../src/case/bands';
-import { MAX_MARKER_NAME, type Settings } from '../../src/case/settings';
-import { CAMERA_PROFILES } from '../../src/engine/profiles';
+import { parseBand, MAX_MARKER_NAME, CAMERA_PROFILES, type Settings } from '../../src/case';
 import { message } from '../shared/browser';
 import { commitsOnLeave, describedBy, FormField, valueOf } from '../shared/form-field';
 import { loadSettings, saveSettings } from '../shared/settings';

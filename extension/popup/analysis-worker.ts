@@ -1,7 +1,5 @@
 /// <reference lib="webworker" />
-import { analyseCase } from '../../src/case/analysis';
-import { pageFigures, type PageFigures } from '../../src/case/page-analysis';
-import type { CaseRecord } from '../../src/case/schema';
+import { analyseCase, pageFigures, type PageFigures, type CaseRecord } from '../../src/case';
 
 /*
  * The case's figures, computed in a worker of the popup's page: a case of thousands of frames takes

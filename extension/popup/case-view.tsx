@@ -1,15 +1,7 @@
 import { useMemo, useState } from 'preact/hooks';
-import type { CaseAnalysis } from '../../src/case/analysis';
-import { engineAssumptions } from '../../src/case/assumptions';
+import { engineAssumptions, defaultAssumptions, parseBand, LANE_CYCLES, formatQuantity, summaryText, toCaseFile, type CaseAnalysis, type CaseAssumptions, type CaseRecord, type Quantity, type UnitSystem, type SummaryFormat } from '../../src/case';
 import { useAnalysis, type AnalysisState } from './use-analysis';
 import { Results } from './results';
-import { defaultAssumptions } from '../../src/case/assumptions';
-import { parseBand } from '../../src/case/bands';
-import type { CaseAssumptions, CaseRecord } from '../../src/case/schema';
-import { LANE_CYCLES } from '../../src/engine/lanes';
-import { formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
-import { summaryText, type SummaryFormat } from '../../src/case/summary';
-import { toCaseFile } from '../../src/case/casefile';
 import { extensionVersion, message, send } from '../shared/browser';
 import { CameraPicker, DirectionPicker, MountPicker, SizePicker } from './pickers';
 import { saveText } from './download';

@@ -1,9 +1,5 @@
 import { useState } from 'preact/hooks';
-import type { CaseAssumptions } from '../../src/case/schema';
-import { parseBand } from '../../src/case/bands';
-import { hfovFromEquivalentFocal } from '../../src/engine/camera';
-import { CAMERA_PROFILES, profileHfovRad } from '../../src/engine/profiles';
-import { CODE_LETTERS, OTHER_SIZE_CLASSES } from '../../src/engine/size';
+import { parseBand, hfovFromEquivalentFocal, CAMERA_PROFILES, profileHfovRad, CODE_LETTERS, OTHER_SIZE_CLASSES, type CaseAssumptions } from '../../src/case';
 import { message } from '../shared/browser';
 import { FormField, valueOf } from '../shared/form-field';
 

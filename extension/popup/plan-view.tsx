@@ -1,7 +1,5 @@
 import { useState } from 'preact/hooks';
-import { planFor, type PageFigures } from '../../src/case/page-analysis';
-import type { PlanView } from '../../src/case/plots';
-import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+import { planFor, formatQuantity, type PageFigures, type PlanView, type UnitSystem } from '../../src/case';
 import { message } from '../shared/browser';
 import { savePicture } from './save-picture';
 import { valueOf } from '../shared/form-field';

@@ -1,5 +1,4 @@
-import type { RangePlot } from '../../src/case/plots';
-import { formatQuantity, type UnitSystem } from '../../src/engine/units';
+import { formatQuantity, type RangePlot, type UnitSystem } from '../../src/case';
 import { message } from '../shared/browser';
 import { savePicture } from './save-picture';
 

@@ -1,10 +1,5 @@
 import { useState } from 'preact/hooks';
-import type { CaseAnalysis, CaseWarning, SpeedReading } from '../../src/case/analysis';
-import type { PageFigures } from '../../src/case/page-analysis';
-import type { PassReading } from '../../src/engine/pass-series';
-import { VERDICT_SENTENCES } from '../../src/engine/plausibility';
-import type { Estimate } from '../../src/engine/stats';
-import { formatEstimate, formatQuantity, type Quantity, type UnitSystem } from '../../src/engine/units';
+import { VERDICT_SENTENCES, formatEstimate, formatQuantity, type CaseAnalysis, type CaseWarning, type SpeedReading, type PageFigures, type PassReading, type Estimate, type Quantity, type UnitSystem } from '../../src/case';
 import { message } from '../shared/browser';
 import { PlanViewSvg } from './plan-view';
 import { RangePlotView } from './range-plot';

@@ -1,6 +1,5 @@
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { PageFigures } from '../../src/case/page-analysis';
-import type { CaseRecord } from '../../src/case/schema';
+import type { PageFigures, CaseRecord } from '../../src/case';
 import type { AnalysisReply } from './analysis-worker';
 
 /*

@@ -1,5 +1,5 @@
 import type { Page } from 'playwright-core';
-import type { CaseAssumptions } from '../../src/case/schema';
+import type { CaseAssumptions } from '../../src/case';
 import { ovl } from './overlay-world';
 
 type Ends = Record<'x1' | 'y1' | 'x2' | 'y2', number>;

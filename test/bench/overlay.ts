@@ -10,7 +10,7 @@ import { inOverlayWorld, ovl } from '../../extension/tools/overlay-world';
  * The overlay part of `npm run bench`: what the injected file costs to ship, to call up and to drag
  * with, in one headless Chromium run against the e2e build. Prints figures; asserts nothing.
  */
-// the injected file (the overlay proper); the first stage travels as a function (extension/shared/call-up.ts)
+// the injected file (the overlay proper); the first stage travels as a function (extension/background/call-up.ts)
 const SHIPPED_OVERLAY = 'dist/extension/overlay/index.js';
 const TARGET_GZIP_BYTES = 30 * 1024;
 const TARGET_INJECT_RATIO = 2;

@@ -472,11 +472,11 @@ describe('the popup view of a measured case', () => {
     expect(download.suggestedFilename()).toMatch(/^clip-caliper-Invented-clip-plain-\d{4}-\d{2}-\d{2}-[0-9a-f]{8}\.json$/);
     const file = join(mkdtempSync(join(tmpdir(), 'clip-caliper-export-')), download.suggestedFilename());
     await download.saveAs(file);
-    const { stdout } = await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', file, '--units', 'metric']);
+    const { stdout } = await promisify(execFile)('node', ['src/cli/run.mjs', file, '--units', 'metric']);
     await openPreview(view);
     expect(stdout).toBe(await view.getByTestId('summary-preview').textContent());
     // and --json gives every result with its interval
-    const json = JSON.parse((await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', file, '--json'])).stdout);
+    const json = JSON.parse((await promisify(execFile)('node', ['src/cli/run.mjs', file, '--json'])).stdout);
     expect(json.analysis.timestamps[0].result.range).toEqual({ p05: expect.any(Number), median: expect.any(Number), p95: expect.any(Number) });
     await view.close();
     await page.close();
@@ -486,7 +486,7 @@ describe('the popup view of a measured case', () => {
     const dir = mkdtempSync(join(tmpdir(), 'clip-caliper-bad-'));
     const bad = join(dir, 'bad.json');
     writeFileSync(bad, JSON.stringify({ format: 'clip-caliper-case', schema: 1, case: { schema: 1, id: 'x' } }));
-    const err = await promisify(execFile)('node_modules/.bin/tsx', ['extension/tools/solve.ts', bad]).then(
+    const err = await promisify(execFile)('node', ['src/cli/run.mjs', bad]).then(
       () => null,
       (e: { stderr: string; code: number }) => e,
     );

@@ -3,17 +3,19 @@
  * Node, with no browser, and prints the same summary text as the popup copies (byte for byte, for
  * the same units), or every result with its interval as JSON. A second reviewer checks a shared case
  * this way. Errors name the field.
+ *
+ * Never run from TypeScript: `npm run build` bundles it once to dist-cli/solve.mjs (bundle.mjs) and
+ * `npm run solve` runs that bundle (run.mjs), rebuilding it only when a source changed. Through a
+ * loader every imported binding becomes a getter call and the whole engine is compiled on each start.
  */
 import { readFileSync, statSync } from 'node:fs';
-import { analyseCase } from '../../src/case/analysis';
-import { MAX_CASE_FILE_BYTES, parseCaseFile } from '../../src/case/casefile';
-import { summaryText } from '../../src/case/summary';
-import type { UnitSystem } from '../../src/engine/units';
+import { analyseCase, MAX_CASE_FILE_BYTES, parseCaseFile, summaryText, type UnitSystem } from '../case';
+// bundled in (only this field): the bundle reads no package.json at run time, wherever it lies
+import { version } from '../../package.json';
 
 const args = process.argv.slice(2);
 const file = args.find((a) => !a.startsWith('--') && args[args.indexOf(a) - 1] !== '--units');
 const units = (args.includes('--units') ? args[args.indexOf('--units') + 1] : 'metric') as UnitSystem;
-const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
 
 function fail(message: string): never {
   process.stderr.write(`solve: ${message}\n`);
@@ -33,9 +35,9 @@ try {
   const c = parseCaseFile(readFileSync(file, 'utf8'));
   const analysis = analyseCase(c);
   if (args.includes('--json')) {
-    process.stdout.write(`${JSON.stringify({ case: c.id, toolVersion: pkg.version, analysis }, (k, v) => (k === 'objectMark' || k === 'landmarkMark' ? v?.id ?? null : v), 2)}\n`);
+    process.stdout.write(`${JSON.stringify({ case: c.id, toolVersion: version, analysis }, (k, v) => (k === 'objectMark' || k === 'landmarkMark' ? v?.id ?? null : v), 2)}\n`);
   } else {
-    process.stdout.write(summaryText(c, analysis, { format: 'text', system: units, toolVersion: pkg.version }));
+    process.stdout.write(summaryText(c, analysis, { format: 'text', system: units, toolVersion: version }));
   }
 } catch (e) {
   fail((e as Error).message);

@@ -27,6 +27,9 @@ export default defineConfig({
           fileParallelism: false,
           testTimeout: 60_000,
           hookTimeout: 90_000,
+          // a figure polled for is computed in the popup's worker: a second (the default) was too
+          // little on a busy two-core machine; a wait for what never comes still fails, later
+          expect: { poll: { timeout: 15_000 } },
         },
       },
     ],

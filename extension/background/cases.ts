@@ -1,5 +1,5 @@
-import { createCaseStore } from '../../src/case/store/case-store';
-import type { KeyValueArea } from '../../src/case/store/port';
+import { createCaseStore } from '../../src/case';
+import type { KeyValueArea } from '../../src/case';
 import { browser } from '../shared/browser';
 
 /*

@@ -1,4 +1,4 @@
-import { SCHEMA_VERSION } from '../../src/case/schema';
+import { SCHEMA_VERSION } from '../../src/case';
 import { browser, extensionVersion, message } from '../shared/browser';
 import { store } from './cases';
 import { injectOverlay, type CallUpOptions } from './call-up';

@@ -1,7 +1,5 @@
-import { readSettings, SETTINGS_KEY } from '../../src/case/settings';
-import { readStoredCase } from '../../src/case/stored';
-import type { CaseRecord } from '../../src/case/schema';
-import { CASE_PREFIX, DELETED_PREFIX, QUARANTINE_PREFIX } from '../../src/case/store-policy';
+import { CASE_PREFIX, DELETED_PREFIX, QUARANTINE_PREFIX, readSettings, readStoredCase, SETTINGS_KEY } from '../../src/case';
+import type { CaseRecord } from '../../src/case';
 import { notice, type Notice, type NoticeKind } from '../shared/messages';
 import { isExtensionPage, samePage } from './senders';
 

@@ -1,4 +1,4 @@
-import { caseIdFor, stripFragment } from '../../src/case/ids';
+import { caseIdFor, stripFragment } from '../../src/case';
 import type { RequestType } from '../shared/messages';
 
 /*

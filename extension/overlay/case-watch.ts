@@ -1,4 +1,4 @@
-import type { CaseRecord } from '../../src/case/schema';
+import type { CaseRecord } from '../../src/case';
 import { subscribe } from '../shared/subscribe';
 
 /** How the background's notices are heard (the browser's own, unless a test gives another). */

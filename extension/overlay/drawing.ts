@@ -1,6 +1,5 @@
-import { marksAt } from '../../src/case/frames';
-import type { Mark, MarkKind, Point } from '../../src/case/schema';
-import type { Mapping } from '../../src/engine/display';
+import { marksAt } from '../../src/case';
+import type { Mapping, Mark, MarkKind, Point } from '../../src/case';
 import { svg } from './dom';
 import type { SessionContext } from './state';
 

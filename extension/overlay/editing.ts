@@ -1,7 +1,5 @@
-import { marksAt } from '../../src/case/frames';
-import { landmarkDimensionOf } from '../../src/case/marks';
-import { POINTS_PER_KIND, type Mark, type MarkKind, type Point } from '../../src/case/schema';
-import { LANDMARK_SNAP_FLOOR_PX } from '../../src/engine/span-ends';
+import { LANDMARK_SNAP_FLOOR_PX, landmarkDimensionOf, marksAt, POINTS_PER_KIND } from '../../src/case';
+import type { Mark, MarkKind, Point } from '../../src/case';
 import { message } from '../shared/native';
 import { endSigma, oneSigma, sigmasOf } from './end-sigmas';
 import type { FramePixels } from './pixels';

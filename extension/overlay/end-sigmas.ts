@@ -1,5 +1,5 @@
-import type { Mark, MarkKind } from '../../src/case/schema';
-import { LANDMARK_SNAP_FLOOR_PX, markSigmaPx } from '../../src/engine/span-ends';
+import { LANDMARK_SNAP_FLOOR_PX, markSigmaPx } from '../../src/case';
+import type { Mark, MarkKind } from '../../src/case';
 
 /*
  * Each end of a mark has its own sigma while it is edited here; the stored mark keeps one, the ends'

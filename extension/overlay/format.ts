@@ -1,6 +1,5 @@
-import { FOOT_M, KNOT_MS, MPH_MS, NAUTICAL_MILE_M, STATUTE_MILE_M } from '../../src/engine/constants';
-import type { Estimate } from '../../src/engine/stats';
-import type { UnitSystem } from '../../src/engine/units';
+import { FOOT_M, KNOT_MS, MPH_MS, NAUTICAL_MILE_M, STATUTE_MILE_M } from '../../src/case';
+import type { Estimate, UnitSystem } from '../../src/case';
 
 /*
  * Plain-number formatting for the overlay's live readout, in the unit system chosen in the

@@ -1,8 +1,5 @@
-import type { EngineAssumptions } from '../../src/case/assumptions';
-import { fieldOfView } from '../../src/case/camera-fields';
-import { frameFigures, type FrameBasis, type FrameFigures, type ObjectSpan } from '../../src/case/frame-figures';
-import { cameraFrame } from '../../src/case/frames';
-import type { Mark } from '../../src/case/schema';
+import { cameraFrame, fieldOfView, frameFigures } from '../../src/case';
+import type { EngineAssumptions, FrameBasis, FrameFigures, Mark, ObjectSpan } from '../../src/case';
 
 /** The overlay's draws per solve: 4 000 take well under a millisecond, so the readout can follow a drag. */
 export const LIVE_DRAWS = 4000;

@@ -1,6 +1,5 @@
-import type { Mark, Point } from '../../src/case/schema';
-import { cssToIntrinsic, intrinsicToCss, mappingFromLayout, type Mapping } from '../../src/engine/display';
-import { handSigmaPx, intrinsicPerCssAlong } from '../../src/engine/span-ends';
+import { cssToIntrinsic, handSigmaPx, intrinsicPerCssAlong, intrinsicToCss, mappingFromLayout } from '../../src/case';
+import type { Mapping, Mark, Point } from '../../src/case';
 
 /**
  * Between the page's CSS pixels and the video's own (intrinsic) pixels. The mapping is computed once

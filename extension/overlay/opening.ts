@@ -1,5 +1,5 @@
-import { caseIdFor, stripFragment } from '../../src/case/ids';
-import type { VideoInfo } from '../../src/case/schema';
+import { caseIdFor, stripFragment } from '../../src/case';
+import type { VideoInfo } from '../../src/case';
 import { message, send } from '../shared/native';
 import { watchCase } from './case-watch';
 import type { CaseSaver } from './saving';

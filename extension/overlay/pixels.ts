@@ -1,5 +1,5 @@
-import { intrinsicToCss, type Mapping } from '../../src/engine/display';
-import type { Gray } from '../../src/engine/snap';
+import { intrinsicToCss } from '../../src/case';
+import type { Gray, Mapping } from '../../src/case';
 import { send } from '../shared/native';
 
 /**

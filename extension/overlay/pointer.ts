@@ -1,4 +1,4 @@
-import { POINTS_PER_KIND } from '../../src/case/schema';
+import { POINTS_PER_KIND } from '../../src/case';
 import { message } from '../shared/native';
 import { trusted } from './dom';
 import type { MarkEditor } from './editing';

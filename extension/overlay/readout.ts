@@ -1,7 +1,5 @@
-import { engineAssumptions, type EngineAssumptions } from '../../src/case/assumptions';
-import type { FrameBasis } from '../../src/case/frame-figures';
-import type { CaseRecord, Mark } from '../../src/case/schema';
-import { disagreement, type SpanDimension } from '../../src/case/size-match';
+import { disagreement, engineAssumptions } from '../../src/case';
+import type { CaseRecord, EngineAssumptions, FrameBasis, Mark, SpanDimension } from '../../src/case';
 import { message } from '../shared/native';
 import { h } from './dom';
 import { degreesEstimate, distanceEstimate, speedEstimate, timestamp } from './format';

@@ -1,4 +1,4 @@
-import type { CaseRecord, Mark } from '../../src/case/schema';
+import type { CaseRecord, Mark } from '../../src/case';
 import { message, send } from '../shared/native';
 import type { SessionContext } from './state';
 

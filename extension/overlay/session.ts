@@ -1,8 +1,7 @@
-import type { CaseRecord } from '../../src/case/schema';
-import { assumedDimension } from '../../src/case/size-match';
+import { assumedDimension } from '../../src/case';
+import type { CaseRecord, UnitSystem } from '../../src/case';
 import { message } from '../shared/native';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
-import type { UnitSystem } from '../../src/engine/units';
 import { forceStyle, trusted } from './dom';
 import { drawMarks, frameCoalescer } from './drawing';
 import { markEditor, type MarkEditor } from './editing';

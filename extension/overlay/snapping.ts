@@ -1,6 +1,5 @@
-import type { Point } from '../../src/case/schema';
-import type { Gray } from '../../src/engine/snap';
-import { MAX_MOVE_PX, MAX_SPAN_CHANGE, snapSpanEnds, type EndResult } from '../../src/engine/span-ends';
+import { MAX_MOVE_PX, MAX_SPAN_CHANGE, snapSpanEnds } from '../../src/case';
+import type { EndResult, Gray, Point } from '../../src/case';
 import { message } from '../shared/native';
 
 /** A span's ends after snapping: where they are, each end's sigma, what to tell the user. */

@@ -1,6 +1,4 @@
-import type { CaseRecord, MarkKind, Point } from '../../src/case/schema';
-import type { SpanDimension } from '../../src/case/size-match';
-import type { UnitSystem } from '../../src/engine/units';
+import type { CaseRecord, MarkKind, Point, SpanDimension, UnitSystem } from '../../src/case';
 import type { OverlayHost } from './host';
 import type { VideoMapping } from './mapping';
 import { FIRST_DIMENSION, FIRST_TOOL } from './panel';

@@ -1,5 +1,4 @@
-import type { MarkKind } from '../../src/case/schema';
-import type { SpanDimension } from '../../src/case/size-match';
+import type { MarkKind, SpanDimension } from '../../src/case';
 import { message } from '../shared/native';
 import { trusted } from './dom';
 import { DIMENSIONS, TOOLS } from './panel';

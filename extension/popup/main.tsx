@@ -1,14 +1,13 @@
+import type { CaseRecord, Settings } from '../../src/case';
 import { render } from 'preact';
 import { useEffect, useState } from 'preact/hooks';
-import type { CaseRecord } from '../../src/case/schema';
 import { browser, message as t, send } from '../shared/browser';
-import { firstStage, injectOverlay } from '../shared/call-up';
+import { firstStage, injectOverlay } from '../background/call-up';
 import { afterNextFrame } from '../shared/next-frame';
 import { subscribe } from '../shared/subscribe';
 import type { CaseView as CaseViewComponent } from './case-view';
 import { LogView, isLogRoute } from './log';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
-import type { Settings } from '../../src/case/settings';
 
 function Cautions() {
   return (

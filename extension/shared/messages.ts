@@ -1,6 +1,4 @@
-import type { CaseListing, QuarantineEntry, StorageUsage } from '../../src/case/listing';
-import type { CaseAssumptions, CaseRecord, CaseStatus, Mark, VideoInfo } from '../../src/case/schema';
-import type { Settings } from '../../src/case/settings';
+import type { CaseAssumptions, CaseListing, CaseRecord, CaseStatus, Mark, QuarantineEntry, Settings, StorageUsage, VideoInfo } from '../../src/case';
 
 /**
  * The one typed contract for messages between background, overlay and popup. Each request names

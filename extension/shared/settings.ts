@@ -1,4 +1,5 @@
-import { DEFAULT_SETTINGS, readSettings, SETTINGS_KEY, type Settings } from '../../src/case/settings';
+import { DEFAULT_SETTINGS, readSettings, SETTINGS_KEY } from '../../src/case';
+import type { Settings } from '../../src/case';
 import { nativeApis } from './native';
 import { subscribe } from './subscribe';
 

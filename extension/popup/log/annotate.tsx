@@ -1,7 +1,6 @@
+import { CASE_STATUSES, checkNotes, parseTags } from '../../../src/case';
+import type { CaseListing, CaseStatus } from '../../../src/case';
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { CaseListing } from '../../../src/case/listing';
-import { CASE_STATUSES, type CaseStatus } from '../../../src/case/schema';
-import { checkNotes, parseTags } from '../../../src/case/log';
 import { message as t, send } from '../../shared/browser';
 import { describedBy, FormField, valueOf } from '../../shared/form-field';
 import { statusWord } from './text';

@@ -1,7 +1,6 @@
+import { shownTitle, visibleRows } from '../../../src/case';
+import type { CaseListing, UnitSystem } from '../../../src/case';
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { CaseListing } from '../../../src/case/listing';
-import { shownTitle, visibleRows } from '../../../src/case/log';
-import type { UnitSystem } from '../../../src/engine/units';
 import { message as t } from '../../shared/browser';
 import { HeadlineCell } from './headline-cell';
 import { day, statusWord } from './text';

@@ -1,9 +1,6 @@
+import { exportFileName, marksByTimestamp, marksCsv, openableUrl, shownTitle } from '../../../src/case';
+import type { CaseListing, CaseRecord, MarkKind } from '../../../src/case';
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { CaseListing } from '../../../src/case/listing';
-import type { CaseRecord, MarkKind } from '../../../src/case/schema';
-import { marksByTimestamp, openableUrl, shownTitle } from '../../../src/case/log';
-import { marksCsv } from '../../../src/case/csv';
-import { exportFileName } from '../../../src/case/importing';
 import { browser, extensionVersion, message as t, send } from '../../shared/browser';
 import { FormField, valueOf } from '../../shared/form-field';
 import { Annotate } from './annotate';
@@ -92,7 +89,7 @@ export function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: bo
       const r = record ?? (await send('case/get', { caseId: c.id }));
       if (!r) throw new Error(t('logGone'));
       // the engine and the units layer come in only when a summary is asked for
-      const [{ analyseCase }, { summaryText }] = await Promise.all([import('../../../src/case/analysis'), import('../../../src/case/summary')]);
+      const { analyseCase, summaryText } = await import('../../../src/case/deferred');
       const name = exportFileName([c.id], Date.now(), 'txt');
       download(name, summaryText(r, analyseCase(r), { format: 'text', system: currentSystem(), toolVersion: extensionVersion() }));
       say(t('logExported', name));

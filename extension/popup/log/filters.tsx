@@ -1,5 +1,5 @@
-import { CASE_STATUSES, type CaseStatus } from '../../../src/case/schema';
-import { SORT_KEYS, type DateField, type SortKey } from '../../../src/case/log';
+import { CASE_STATUSES, SORT_KEYS } from '../../../src/case';
+import type { CaseStatus, DateField, SortKey } from '../../../src/case';
 import { message as t } from '../../shared/browser';
 import { describedBy, FormField, valueOf } from '../../shared/form-field';
 import { EMPTY_FILTERS, type DateError, type FilterText } from './query';

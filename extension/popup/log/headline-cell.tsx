@@ -1,6 +1,5 @@
+import type { CaseListing, UnitSystem } from '../../../src/case';
 import { useEffect, useState } from 'preact/hooks';
-import type { CaseListing } from '../../../src/case/listing';
-import type { UnitSystem } from '../../../src/engine/units';
 import { message as t } from '../../shared/browser';
 import { headlines, type HeadlineState } from './headlines';
 

@@ -1,7 +1,5 @@
-import type { CaseListing } from '../../../src/case/listing';
-import type { Headline } from '../../../src/case/headline';
-import { headlineKey, LruCache } from '../../../src/case/log';
-import type { UnitSystem } from '../../../src/engine/units';
+import { headlineKey, LruCache } from '../../../src/case';
+import type { CaseListing, Headline, UnitSystem } from '../../../src/case';
 import { message as t, send } from '../../shared/browser';
 
 /*
@@ -19,7 +17,7 @@ export type HeadlineState = { headline: Headline | null; text: (system: UnitSyst
  * The figure needs the engine and the unit formatter (mathjs), which the list does not: they are
  * loaded with the first headline, so they are not part of what the log evaluates before its rows.
  */
-type HeadlineModule = typeof import('../../../src/case/headline');
+type HeadlineModule = typeof import('../../../src/case/deferred');
 
 class HeadlineStore {
   private module: Promise<HeadlineModule> | null = null;
@@ -27,7 +25,7 @@ class HeadlineStore {
   private queue: Promise<void> = Promise.resolve();
 
   private load(): Promise<HeadlineModule> {
-    return (this.module ??= import('../../../src/case/headline'));
+    return (this.module ??= import('../../../src/case/deferred'));
   }
 
   /** The headline already worked out for this version of the case, if any. */

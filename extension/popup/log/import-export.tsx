@@ -1,5 +1,5 @@
+import { MAX_CASE_FILE_BYTES } from '../../../src/case';
 import { useState } from 'preact/hooks';
-import { MAX_CASE_FILE_BYTES } from '../../../src/case/casefile';
 import { message as t, send } from '../../shared/browser';
 import { download } from './download';
 import { kb } from './text';

@@ -1,6 +1,6 @@
+import { applyQuery, DEFAULT_QUERY, distinctSites, distinctTags, shownTitle } from '../../../src/case';
+import type { CaseListing, LogQuery } from '../../../src/case';
 import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
-import type { CaseListing } from '../../../src/case/listing';
-import { applyQuery, DEFAULT_QUERY, distinctSites, distinctTags, shownTitle, type LogQuery } from '../../../src/case/log';
 import { message as t, send } from '../../shared/browser';
 import { CaseList } from './case-list';
 import { Detail } from './detail';

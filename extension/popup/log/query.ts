@@ -1,6 +1,5 @@
-import type { CaseStatus } from '../../../src/case/schema';
-import { DEFAULT_QUERY, parseDayRange, type DateField, type LogQuery, type SortKey } from '../../../src/case/log';
-import { InputError } from '../../../src/engine/errors';
+import { DEFAULT_QUERY, InputError, parseDayRange } from '../../../src/case';
+import type { CaseStatus, DateField, LogQuery, SortKey } from '../../../src/case';
 
 /* The filters as the user typed them, and the query they make (pure: test/extension/log-query.test.ts). */
 

@@ -1,4 +1,4 @@
-import type { QuarantineEntry, StorageUsage } from '../../../src/case/listing';
+import type { QuarantineEntry, StorageUsage } from '../../../src/case';
 import { message as t } from '../../shared/browser';
 import { day, kb } from './text';
 

@@ -1,5 +1,5 @@
+import type { UnitSystem } from '../../../src/case';
 import { useEffect, useState } from 'preact/hooks';
-import type { UnitSystem } from '../../../src/engine/units';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../../shared/settings';
 
 /*

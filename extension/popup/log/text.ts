@@ -1,4 +1,4 @@
-import type { CaseStatus } from '../../../src/case/schema';
+import type { CaseStatus } from '../../../src/case';
 import { message as t } from '../../shared/browser';
 
 /* The log's words and formats for values: status names, dates, timestamps, sizes. */

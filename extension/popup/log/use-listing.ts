@@ -1,5 +1,5 @@
+import type { CaseListing, QuarantineEntry, StorageUsage } from '../../../src/case';
 import { useEffect, useState } from 'preact/hooks';
-import type { CaseListing, QuarantineEntry, StorageUsage } from '../../../src/case/listing';
 import { message as t, send } from '../../shared/browser';
 import { subscribe } from '../../shared/subscribe';
 import { isLogRoute } from './route';

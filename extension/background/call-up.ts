@@ -1,5 +1,6 @@
 import overlayFile from '../overlay/index.ts?script&iife';
-import { afterNextFrame, drawShell, preferVideo, shellText, type CallUpStatus, type ShellText } from '../overlay/shell';
+import { drawShell, preferVideo, shellText, type CallUpStatus, type ShellText } from '../overlay/shell';
+import { afterNextFrame } from '../shared/next-frame';
 import { OVERLAY_CSS } from '../overlay/styles';
 import { browser, message } from '../shared/browser';
 

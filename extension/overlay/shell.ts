@@ -4,7 +4,7 @@ import { DIMENSIONS, FIRST_DIMENSION, FIRST_TOOL, TOOLS } from './panel';
 /*
  * The overlay's shell: the host element over a video and the panel inside its shadow root, drawn
  * without behaviour. Calling the overlay up runs drawShell at once, before the rest of the overlay
- * has even been read (extension/shared/call-up.ts); the session then takes these same elements and
+ * has even been read (extension/background/call-up.ts); the session then takes these same elements and
  * wires them (session.ts). With several videos, frames, fullscreen or an overlay already up, the
  * first stage draws nothing and the session draws the shell itself, with this same function.
  *
@@ -146,20 +146,6 @@ export function drawShell(video: HTMLVideoElement | null, text: ShellText, css: 
     // a page that broke the DOM's own methods: the session draws the shell after all
     return video ? null : false;
   }
-}
-
-/**
- * Settles once the page has shown its next frame, or after 100 ms (a tab in the background shows
- * none). Self-contained, as drawShell: it runs in the frame, after the first stage, so that the
- * panel reaches the screen before the overlay proper takes the page's main thread to load. The
- * isolated world's timers are its own: a page that overrides requestAnimationFrame or setTimeout
- * changes only its own.
- */
-export function afterNextFrame(): Promise<void> {
-  return new Promise((done) => {
-    requestAnimationFrame(() => setTimeout(done, 0));
-    setTimeout(done, 100);
-  });
 }
 
 const PREFER_KEY = 'clip-caliper.prefer';

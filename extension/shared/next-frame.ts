@@ -4,9 +4,7 @@
  * the first stage, so that the panel reaches the screen before the overlay proper takes the page's
  * main thread to load. The isolated world's timers are its own: a page that overrides
  * requestAnimationFrame or setTimeout changes only its own.
- *
- * The same function as overlay/shell.ts afterNextFrame (left there while the overlay is being
- * split; it should import this one), kept here so that the popup need not import the overlay.
+ * Here, not in the overlay, so that the popup need not import the overlay.
  */
 export function afterNextFrame(): Promise<void> {
   return new Promise((done) => {

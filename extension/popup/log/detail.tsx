@@ -4,7 +4,7 @@ import { useEffect, useRef, useState } from 'preact/hooks';
 import { browser, extensionVersion, message as t, send } from '../../shared/browser';
 import { FormField, valueOf } from '../../shared/form-field';
 import { Annotate } from './annotate';
-import { download } from './download';
+import { saveText } from '../download';
 import { HeadlineCell } from './headline-cell';
 import { currentSystem, useSystem } from './system';
 import { day, stamp } from './text';
@@ -64,7 +64,7 @@ export function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: bo
     setError(null);
     try {
       const f = await send('cases/export', { caseIds: [c.id] });
-      download(f.fileName, f.text);
+      saveText(f.text, f.fileName);
       say(t('logExported', f.fileName));
     } catch (e) {
       setError(t('logExportFailed', (e as Error).message));
@@ -77,7 +77,7 @@ export function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: bo
       const r = record ?? (await send('case/get', { caseId: c.id }));
       if (!r) throw new Error(t('logGone'));
       const name = exportFileName([c.id], Date.now(), 'csv');
-      download(name, marksCsv([r]));
+      saveText(marksCsv([r]), name);
       say(t('logExported', name));
     } catch (e) {
       setError(t('logExportFailed', (e as Error).message));
@@ -91,7 +91,7 @@ export function Detail({ c, focus, onDeleted, say }: { c: CaseListing; focus: bo
       // the engine and the units layer come in only when a summary is asked for
       const { analyseCase, summaryText } = await import('../../../src/case/deferred');
       const name = exportFileName([c.id], Date.now(), 'txt');
-      download(name, summaryText(r, analyseCase(r), { format: 'text', system: currentSystem(), toolVersion: extensionVersion() }));
+      saveText(summaryText(r, analyseCase(r), { format: 'text', system: currentSystem(), toolVersion: extensionVersion() }), name);
       say(t('logExported', name));
     } catch (e) {
       setError(t('logExportFailed', (e as Error).message));

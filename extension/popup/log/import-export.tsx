@@ -1,7 +1,7 @@
 import { MAX_CASE_FILE_BYTES } from '../../../src/case';
 import { useState } from 'preact/hooks';
 import { message as t, send } from '../../shared/browser';
-import { download } from './download';
+import { saveText } from '../download';
 import { kb } from './text';
 
 /** Every case exported as one file; a case file imported (checked whole first, its size before its contents). */
@@ -11,7 +11,7 @@ export function ImportExport({ say }: { say: (msg: string) => void }) {
   const exportAll = async () => {
     try {
       const f = await send('cases/export', {});
-      download(f.fileName, f.text);
+      saveText(f.text, f.fileName);
       say(t('logExported', f.fileName));
     } catch (e) {
       say(t('logExportFailed', (e as Error).message));

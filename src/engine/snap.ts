@@ -1,6 +1,7 @@
 import { InputError } from './errors';
 import { checkGray, lumaAt, noiseSigma, NOISE_RADIUS_MAX_PX, type Gray } from './gray';
 import { clampIndex, largestPeak, medianInPlace, nearestPeak } from './peaks';
+import { functionalNorm, reserveNoiseGrid } from './snap-noise';
 import { centroidCoefficients, spreadCoefficients, windowCentroid, windowSpread } from './snap-moments';
 import { finite, inRange } from './validate';
 
@@ -136,8 +137,7 @@ const scZ = new Float64Array(N_SCALES);
 const sorted = new Float64Array(MAX_SAMPLES);
 const rawGrad = new Float64Array(MAX_SAMPLES);
 const coef = new Float64Array(MAX_SAMPLES);
-const GRID_SIDE = Math.ceil(2 * HALF_MAX + (LINES - 1) * LINE_SPACING_PX) + 4;
-const grid = new Float64Array(GRID_SIDE * GRID_SIDE);
+reserveNoiseGrid(Math.ceil(2 * HALF_MAX + (LINES - 1) * LINE_SPACING_PX) + 4);
 
 
 /**
@@ -221,7 +221,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     const b = medianInPlace(sorted, n - 2);
     let j: number;
     if (nearest) {
-      const spHere = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, track, n, 1, true));
+      const spHere = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, track, n, 1, true), LINES, lineSpacing);
       j = nearestPeak(g, b, jLo, jHi, track, wantSign, Math.max(DETECT_Z * spHere, MIN_RELATIVE_GRADIENT * level), NEAREST_MIN_SHARE);
       // a wider scale that finds it elsewhere has merged it with a neighbour
       if (j >= 0 && best >= 0 && Math.abs(j - track) * h > 1 + TRACK_SCALES * SCALES_PX[sc]!) j = -1;
@@ -233,7 +233,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     if (j < 0) continue;
     if (nearest && best < 0) track = j;
     const p = Math.abs(g[j]! - b);
-    const sp = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, j, n, 1, true));
+    const sp = noise * functionalNorm(img, x, y, dx, dy, s0, h, n, gradientCoefficients(sc, j, n, 1, true), LINES, lineSpacing);
     const z = sp > 0 ? p / sp : Number.POSITIVE_INFINITY;
     scBase[sc] = b;
     scPeak[sc] = p;
@@ -278,7 +278,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     // d delta = (d g_(j-1) - d g_(j+1)) / 2 den, to first order
     gradientCoefficients(scale, jPeak - 1, n, 0.5 / den, true);
     gradientCoefficients(scale, jPeak + 1, n, -0.5 / den, false);
-    const noiseSd = h * noise * functionalNorm(img, x, y, dx, dy, s0, h, n, coef);
+    const noiseSd = h * noise * functionalNorm(img, x, y, dx, dy, s0, h, n, coef, LINES, lineSpacing);
     sigma = Math.hypot(noiseSd, PARABOLA_BIAS_PX / SCALES_PX[scale]!);
   }
   const half = edgeWindow(grad, jPeak, peak, sign, base, sigmaPeak, n);
@@ -288,7 +288,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
     if (!Number.isNaN(c)) {
       offset = c;
       const cn = centroidCoefficients(coef, rawGrad, s0, h, n, c, half, centroidMass, sign);
-      sigma = Math.hypot(noise * functionalNorm(img, x, y, dx, dy, s0, h, n, cn), CENTROID_BIAS_PX);
+      sigma = Math.hypot(noise * functionalNorm(img, x, y, dx, dy, s0, h, n, cn, LINES, lineSpacing), CENTROID_BIAS_PX);
     }
   }
   const sigmaPx = Math.min(MAX_SIGMA_PX, Math.max(MIN_SIGMA_PX, sigma));
@@ -297,7 +297,7 @@ export function snapAlong(img: Gray, x: number, y: number, dirX: number, dirY: n
   let spreadSigmaPx = 0;
   if (spreadPx > 0 && noise > 0) {
     const sn = spreadCoefficients(coef, rawGrad, s0, h, n, offset, spreadHalf, spreadPx * spreadPx, sign);
-    spreadSigmaPx = (noise * functionalNorm(img, x, y, dx, dy, s0, h, n, sn)) / (2 * spreadPx);
+    spreadSigmaPx = (noise * functionalNorm(img, x, y, dx, dy, s0, h, n, sn, LINES, lineSpacing)) / (2 * spreadPx);
   }
   return { x: x + offset * dx, y: y + offset * dy, offsetPx: offset, strength: peak, sigmaPx, spreadPx, spreadSigmaPx };
 }
@@ -412,51 +412,4 @@ function gradientCoefficients(sc: number, j: number, n: number, w: number, fresh
     coef[clampIndex(j - 1 + i, n)]! -= f * k[i + half]!;
   }
   return coef;
-}
-
-/**
- * Root of the sum of squared pixel weights of a linear functional of the profile (coefficients c on
- * its samples): multiplied by the pixel noise sigma it gives the functional's noise sigma.
- */
-function functionalNorm(img: Gray, x: number, y: number, dx: number, dy: number, s0: number, h: number, n: number, c: Float64Array): number {
-  const sEnd = s0 + (n - 1) * h;
-  const tMax = LINE_MID * lineSpacing;
-  const px = -dy;
-  const py = dx;
-  const gx0 = Math.floor(Math.min(x + s0 * dx, x + sEnd * dx) - tMax * Math.abs(px) - 0.5);
-  const gy0 = Math.floor(Math.min(y + s0 * dy, y + sEnd * dy) - tMax * Math.abs(py) - 0.5);
-  const side = GRID_SIDE;
-  grid.fill(0);
-  const wm = img.width - 1;
-  const hm = img.height - 1;
-  for (let q = 0; q < n * LINES; q++) {
-    const j = q % n;
-    const cj = c[j]! / LINES;
-    if (cj === 0) continue;
-    const s = s0 + j * h;
-    const t = (Math.floor(q / n) - LINE_MID) * lineSpacing;
-    const fx = x + s * dx + t * px - 0.5;
-    const fy = y + s * dy + t * py - 0.5;
-    const fi = Math.floor(fx);
-    const fj = Math.floor(fy);
-    const tx = fx - fi;
-    const ty = fy - fj;
-    // clamped pixels are the same pixel, so their weights must add before squaring
-    const i0 = (fi < 0 ? 0 : fi > wm ? wm : fi) - gx0;
-    const i1 = (fi + 1 < 0 ? 0 : fi + 1 > wm ? wm : fi + 1) - gx0;
-    const j0 = (fj < 0 ? 0 : fj > hm ? hm : fj) - gy0;
-    const j1 = (fj + 1 < 0 ? 0 : fj + 1 > hm ? hm : fj + 1) - gy0;
-    addWeight(i0, j0, cj * (1 - tx) * (1 - ty), side);
-    addWeight(i1, j0, cj * tx * (1 - ty), side);
-    addWeight(i0, j1, cj * (1 - tx) * ty, side);
-    addWeight(i1, j1, cj * tx * ty, side);
-  }
-  let ss = 0;
-  for (let k = 0; k < side * side; k++) ss += grid[k]! * grid[k]!;
-  return Math.sqrt(ss);
-}
-
-function addWeight(i: number, j: number, w: number, side: number): void {
-  // clamping to the image can only move a pixel toward the grid's interior, never out of it
-  if (i >= 0 && i < side && j >= 0 && j < side) grid[j * side + i]! += w;
 }

@@ -21,7 +21,7 @@ export function summarize(values: Float64Array, n = values.length, tail = 0.05):
   if (m === 0) throw new UndeterminedError('estimate', 'no draw gave a finite value');
   if (min === max) return { p05: min, median: min, p95: min };
   // a widened interval (cautiousTail): plain selection at its own ends
-  if (tail !== 0.05) return sortedQuantiles(values.subarray(0, m).sort(), tail);
+  if (tail !== 0.05) return selectedQuantiles(values, m, tail);
   // small inputs, and spreads too wide for a finite bin width, take plain selection
   if (m < 512 || !Number.isFinite(max - min)) {
     return {
@@ -33,17 +33,32 @@ export function summarize(values: Float64Array, n = values.length, tail = 0.05):
   return binnedQuantiles(values, m, min, max);
 }
 
-/** Type 7 quantiles (as quantileInPlace) at tail, 1/2 and 1 - tail of sorted values: one sort for the three. */
-function sortedQuantiles(a: Float64Array, tail: number): Estimate {
+/**
+ * Type 7 quantiles at tail, 1/2 and 1 - tail of a[0..m), by selection rather than a sort: the same
+ * order statistics in the same arithmetic, so the same numbers, in linear time. A pass at the mark
+ * limit summarizes tens of thousands of columns this way, and sorting each took a quarter of
+ * `npm run solve` on it. The upper end's rank is counted from the top, the lower end's mirror: a
+ * tail putting the lower end exactly on a draw (cautiousTail) then puts the upper end exactly on its
+ * mirror, not a rounding short.
+ */
+function selectedQuantiles(a: Float64Array, m: number, tail: number): Estimate {
+  const last = m - 1;
+  let from = 0;
   const at = (h: number) => {
     const lo = Math.floor(h);
-    const hi = Math.min(lo + 1, a.length - 1);
-    return a[lo]! + (h - lo) * (a[hi]! - a[lo]!);
+    const vLo = select(a, from, last, lo);
+    // after select(lo), the smallest of a[lo+1..m) is the next order statistic
+    let vHi = vLo;
+    if (lo < last) {
+      vHi = a[lo + 1]!;
+      for (let i = lo + 2; i <= last; i++) if (a[i]! < vHi) vHi = a[i]!;
+    }
+    from = lo;
+    return vLo + (h - lo) * (vHi - vLo);
   };
-  const last = a.length - 1;
-  // the upper end's rank is counted from the top, the lower end's mirror: a tail putting the lower end
-  // exactly on a draw (cautiousTail) then puts the upper end exactly on its mirror, not a rounding short
-  return { p05: at(last * tail), median: at(last * 0.5), p95: at(last - last * tail) };
+  const p05 = at(last * tail);
+  const median = at(last * 0.5);
+  return { p05, median, p95: at(last - last * tail) };
 }
 
 /*

@@ -11,6 +11,8 @@ import type { SessionContext } from './state';
  * The panel's readout: the figures of the frame shown (or of the span being dragged) under the
  * case's assumptions, what they assume, and the spoken line after a save.
  */
+const NO_MARKS: readonly Mark[] = [];
+
 export class Readout {
   private assumptions: EngineAssumptions = engineAssumptions(undefined);
   private readonly spanAssumptions = new Map<string, EngineAssumptions>();
@@ -36,9 +38,17 @@ export class Readout {
     return a;
   }
 
+  /** The last basis, kept while its inputs are the same objects: a redraw runs on every pointer move. */
+  private last: { a: EngineAssumptions; marks: readonly Mark[]; w: number; h: number; basis: FrameBasis } | null = null;
+
   private basis(a: EngineAssumptions): FrameBasis {
-    const v = this.ctx.video;
-    return liveBasis(a, this.ctx.state.record?.marks ?? [], v.videoWidth, v.videoHeight);
+    const marks = this.ctx.state.record?.marks ?? NO_MARKS;
+    const { videoWidth: w, videoHeight: h } = this.ctx.video;
+    const l = this.last;
+    if (l && l.a === a && l.marks === marks && l.w === w && l.h === h) return l.basis;
+    const basis = liveBasis(a, marks, w, h);
+    this.last = { a, marks, w, h, basis };
+    return basis;
   }
 
   /** Shows the figures for the frame whose marks are `here`. */

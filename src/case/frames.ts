@@ -10,8 +10,8 @@ export interface FrameRect {
 
 export function cameraFrame(marks: readonly Mark[], videoWidth: number, videoHeight: number): FrameRect {
   // the latest mark of each wins: the presentation does not change within a clip
-  const edges = [...marks].reverse().find((m) => m.kind === 'frame-edges');
-  const rows = [...marks].reverse().find((m) => m.kind === 'frame-top-bottom');
+  const edges = latest(marks, 'frame-edges');
+  const rows = latest(marks, 'frame-top-bottom');
   const frame = { left: 0, right: videoWidth, top: 0, bottom: videoHeight };
   if (edges) {
     const [a, b] = edges.points as [Point, Point];
@@ -24,6 +24,12 @@ export function cameraFrame(marks: readonly Mark[], videoWidth: number, videoHei
     frame.bottom = Math.max(a.y, b.y);
   }
   return frame;
+}
+
+/** The last mark of a kind, without copying the list (the overlay asks on every pointer move). */
+function latest(marks: readonly Mark[], kind: Mark['kind']): Mark | undefined {
+  for (let i = marks.length - 1; i >= 0; i--) if (marks[i]!.kind === kind) return marks[i];
+  return undefined;
 }
 
 /** Marks that belong to the frame at time t (the same paused frame: within half a frame at 24 fps). */

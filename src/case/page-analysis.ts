@@ -19,8 +19,11 @@ export interface PageFigures {
 }
 
 export function pageFigures(r: CaseAnalysis): PageFigures {
-  const plans: PageFigures['plans'] = { first: planView(r) };
+  const plans: PageFigures['plans'] = {};
   for (const x of r.readings) if (x.pass && !(x.pass.direction in plans)) plans[x.pass.direction] = planView(r, x.pass.direction);
+  // none chosen, planView draws the first pass reading's direction, already drawn above
+  const first = r.readings.find((x) => x.pass)?.pass;
+  plans.first = first ? plans[first.direction]! : planView(r);
   return { r: slim(r), rangePlot: rangePlot(r), plans };
 }
 

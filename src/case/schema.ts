@@ -6,19 +6,7 @@ import type { assumptionsSchema, markSchema, pointSchema, recordSchema, versionS
  * version, kinds and limits are in case-limits.ts (the definition in shape.ts reads them there);
  * its types are read off the definition here.
  */
-export {
-  CASE_STATUSES,
-  MARK_KINDS,
-  MAX_HISTORY,
-  MAX_MARKS_PER_CASE,
-  MAX_NOTES_CHARS,
-  MAX_TAG_CHARS,
-  MAX_TAGS,
-  POINTS_PER_KIND,
-  SCHEMA_VERSION,
-  type CaseStatus,
-  type MarkKind,
-} from './case-limits';
+export * from './case-limits';
 
 /*
  * The record's types are read off its one definition (shape.ts), so they cannot drift from what

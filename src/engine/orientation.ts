@@ -112,10 +112,15 @@ export function rayElevationUnchecked(X: number, Y: number, focalPx: number, pit
  * horizontal plane.
  */
 export function rayAzimuthFromAxis(X: number, Y: number, focalPx: number, tilt: CameraTilt): number {
-  const sp = Math.sin(tilt.pitch);
-  const cp = Math.cos(tilt.pitch);
-  const sr = Math.sin(tilt.roll);
-  const cr = Math.cos(tilt.roll);
+  return rayAzimuthUnchecked(X, Y, focalPx, tilt.pitch, tilt.roll);
+}
+
+/** rayAzimuthFromAxis with the tilt as two numbers: Monte Carlo loops allocate nothing per draw. */
+export function rayAzimuthUnchecked(X: number, Y: number, focalPx: number, pitch: number, roll: number): number {
+  const sp = Math.sin(pitch);
+  const cp = Math.cos(pitch);
+  const sr = Math.sin(roll);
+  const cr = Math.cos(roll);
   const forward = focalPx * cp - sp * (X * sr + Y * cr);
   const right = X * cr - Y * sr;
   return -Math.atan2(right, forward);

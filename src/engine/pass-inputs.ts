@@ -1,5 +1,6 @@
 import { spanHalfAngleTanUnchecked, spanLineConstants } from './camera';
-import { pitchFromKnownElevationUnchecked, rayAzimuthFromAxis, rayElevation, tiltFromHorizonUnchecked, type CameraTilt } from './orientation';
+import { pitchFromKnownElevationUnchecked, rayAzimuthUnchecked, rayElevationUnchecked, tiltFromCentredHorizon } from './orientation';
+import { Columns } from './uncertainty';
 import type { AxisCode } from './pass-model';
 import { footDistanceUnchecked } from './range';
 import type { PassData } from './pass-fit';
@@ -110,6 +111,9 @@ export function drawValues(scene: PassScene): DrawValues {
 }
 
 const line = new Float64Array(3);
+const tiltOut = new Float64Array(2);
+/** A draw's landmark base pitches (0), horizon pitches (1) and rolls (2): grown once, reused every draw. */
+const tiltScratch = new Columns();
 /**
  * Of each span's length error (sd sqrt(2) sigma, its two ends' together), 0.7 of the spread is taken
  * as shared by every span of the pass and the rest as its own: edges found by the same hand or
@@ -147,44 +151,55 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
   v.cameraHeight = pick.band(scene.cameraHeight);
   d.axis = scene.object.axis;
 
-  // landmarks: their ranges, and a height's base as a ground point that gives the tilt
-  const baseTilt: (CameraTilt | null)[] = [];
-  scene.landmarks.forEach((lm, i) => {
+  // landmarks: their ranges, and a height's base as a ground point that gives the tilt (NaN: none)
+  const nl = scene.landmarks.length;
+  const nh = scene.horizons.length;
+  const basePitch = tiltScratch.get(0, nl);
+  for (let i = 0; i < nl; i++) {
+    const lm = scene.landmarks[i]!;
     const s = lm.span;
     const theta = spanAngleMoved(s, W, H, f, pick.normal(Math.SQRT2 * s.edgeSigmaPx));
     const size = pick.band(lm.size);
     const sinA = lm.aspect ? Math.sin(pick.band(lm.aspect)) : 1;
     let horizontal = (size * sinA) / (2 * Math.tan(theta / 2));
-    let tilt: CameraTilt | null = null;
+    basePitch[i] = Number.NaN;
     if (lm.dimension === 'height') {
       horizontal = footDistanceUnchecked(size, Math.tan(theta), v.cameraHeight);
       const lower = s.y1 > s.y2 ? { x: s.x1, y: s.y1 } : { x: s.x2, y: s.y2 };
       const X = lower.x - W / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
       const Y = H / 2 - lower.y + pick.normal(s.edgeSigmaPx / Math.SQRT2);
-      const pitch = pitchFromKnownElevationUnchecked(X, Y, f, -Math.atan2(v.cameraHeight, horizontal));
-      if (pitch === pitch) tilt = { pitch, roll: 0 };
+      basePitch[i] = pitchFromKnownElevationUnchecked(X, Y, f, -Math.atan2(v.cameraHeight, horizontal));
     }
     v.landmarkRange[i] = horizontal > 0 ? horizontal : Number.NaN;
-    baseTilt.push(tilt);
-  });
+  }
 
-  // horizons, each moved by its points' uncertainty
-  const horizonTilts = scene.horizons.map((h) =>
-    tiltFromHorizonUnchecked(h.x1, h.y1 + pick.normal(h.sigmaPx), h.x2, h.y2 + pick.normal(h.sigmaPx), W, H, f),
-  );
-  const fixedTilt: CameraTilt | null = scene.fixed
-    ? horizonTilts.length > 0
-      ? horizonTilts[horizonTilts.length - 1]!
-      : scene.fixed.pitch
-        ? { pitch: pick.band(scene.fixed.pitch), roll: 0 }
-        : null
-    : null;
-  const fixedSource = scene.fixed ? (horizonTilts.length > 0 ? 1 : scene.fixed.pitch ? 3 : 0) : 0;
+  // horizons, each moved by its points' uncertainty; into scratch columns, as a pass of thousands
+  // of frames has thousands of horizons and an object for each, every draw, was most of its garbage
+  const horizonPitch = tiltScratch.get(1, nh);
+  const horizonRoll = tiltScratch.get(2, nh);
+  for (let i = 0; i < nh; i++) {
+    const h = scene.horizons[i]!;
+    const Y1 = H / 2 - (h.y1 + pick.normal(h.sigmaPx));
+    const Y2 = H / 2 - (h.y2 + pick.normal(h.sigmaPx));
+    tiltFromCentredHorizon(h.x1 - W / 2, Y1, h.x2 - W / 2, Y2, f, tiltOut);
+    horizonPitch[i] = tiltOut[0]!;
+    horizonRoll[i] = tiltOut[1]!;
+  }
+  // a fixed camera's tilt: its last horizon's, else its pitch (no roll), else none (NaN)
+  let fixedPitch = Number.NaN;
+  let fixedRoll = 0;
+  if (scene.fixed && nh > 0) {
+    fixedPitch = horizonPitch[nh - 1]!;
+    fixedRoll = horizonRoll[nh - 1]!;
+  } else if (scene.fixed?.pitch) fixedPitch = pick.band(scene.fixed.pitch);
+  const fixedSource = scene.fixed ? (nh > 0 ? 1 : scene.fixed.pitch ? 3 : 0) : 0;
   let aim = scene.fixed ? pick.band(scene.fixed.aim) : 0;
   const road = scene.fixed?.roadAhead;
   if (road) {
     const sd = road.sigmaPx / Math.SQRT2;
-    aim = -rayAzimuthFromAxis(road.x - W / 2 + pick.normal(sd), H / 2 - road.y + pick.normal(sd), f, fixedTilt ?? { pitch: 0, roll: 0 });
+    const X = road.x - W / 2 + pick.normal(sd);
+    const Y = H / 2 - road.y + pick.normal(sd);
+    aim = fixedPitch === fixedPitch ? -rayAzimuthUnchecked(X, Y, f, fixedPitch, fixedRoll) : -rayAzimuthUnchecked(X, Y, f, 0, 0);
   }
 
   v.hasElevation = false;
@@ -192,7 +207,9 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
   const frames = sameFrames(scene);
   // one part of every span's length error shared by the whole pass (see SHARED_EDGE_SHARE)
   const shared = pick.normal(1);
-  scene.marks.forEach((m, k) => {
+  const n = scene.marks.length;
+  for (let k = 0; k < n; k++) {
+    const m = scene.marks[k]!;
     const s = m.span;
     d.t[k] = m.t;
     const lengthSd = Math.SQRT2 * s.edgeSigmaPx;
@@ -200,36 +217,43 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
     d.sTheta[k] = sigmaTheta[k]!;
     const X = (s.x1 + s.x2) / 2 - W / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
     const Y = H / 2 - (s.y1 + s.y2) / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
-    let tilt: CameraTilt | null = null;
+    let pitch = Number.NaN;
+    let roll = 0;
     let source = 0;
     if (scene.fixed) {
-      tilt = fixedTilt;
+      pitch = fixedPitch;
+      roll = fixedRoll;
       source = fixedSource;
     } else {
       const hi = frames.horizon[k]!;
       if (hi >= 0) {
-        tilt = horizonTilts[hi]!;
+        pitch = horizonPitch[hi]!;
+        roll = horizonRoll[hi]!;
         source = 1;
       } else {
-        const li = frames.landmarks[k]!.find((i) => baseTilt[i]);
-        if (li !== undefined) {
-          tilt = baseTilt[li]!;
-          source = 2;
+        // the first landmark on the frame whose base gave a tilt
+        for (const li of frames.landmarks[k]!) {
+          if (basePitch[li] === basePitch[li]) {
+            pitch = basePitch[li]!;
+            source = 2;
+            break;
+          }
         }
       }
     }
     v.elevationSource[k] = source;
     const angleSigma = Math.max(s.edgeSigmaPx / f, ANGLE_FLOOR);
-    if (tilt) {
-      d.elev[k] = rayElevation(X, Y, f, tilt);
+    const tilted = pitch === pitch;
+    if (tilted) {
+      d.elev[k] = rayElevationUnchecked(X, Y, f, pitch, roll);
       d.sElev[k] = angleSigma;
       v.hasElevation = true;
     } else d.elev[k] = Number.NaN;
     if (scene.fixed) {
-      d.azim[k] = aim + rayAzimuthFromAxis(X, Y, f, tilt ?? { pitch: 0, roll: 0 });
+      d.azim[k] = aim + (tilted ? rayAzimuthUnchecked(X, Y, f, pitch, roll) : rayAzimuthUnchecked(X, Y, f, 0, 0));
       d.sAzim[k] = angleSigma;
     } else d.azim[k] = Number.NaN;
-  });
+  }
 }
 
 /** For each object mark, the horizon and the landmarks marked on its frame, by index. */

@@ -3,9 +3,9 @@ import { judgeSpeed } from '../engine/plausibility';
 import { cautiousTail, type Estimate } from '../engine/stats';
 import { passBins } from '../engine/pass-bins';
 import type { RegimeShares } from '../engine/uncertainty';
-import { engineAssumptions } from './assumptions';
-import { cameraFrame, marksIndex } from './frames';
-import { frameFigures } from './frame-figures';
+import { engineAssumptions, type EngineAssumptions } from './assumptions';
+import { cameraFrame, marksIndex, type FrameRect } from './frames';
+import { frameFigures, type FrameBasis } from './frame-figures';
 import { checkLandmarks } from './landmark-checks';
 import { allowedReadings, axisOf, fieldOfView, passInputs, signsFor } from './pass-scene';
 import type { CaseRecord, Mark } from './schema';
@@ -60,40 +60,89 @@ export function cappedDraws(units: number, full: number, budget: number): { draw
   return { draws, tail: cautiousTail(draws), capped: true };
 }
 
-export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseAnalysis {
+/**
+ * What every part of a case's analysis starts from, found once: the assumptions (a speed measured
+ * from lane dashes standing in for the one given), the camera frame, the field of view, the object's
+ * marks in time order and the draws. The same case gives the same plan on any thread.
+ */
+export interface AnalysisPlan {
+  c: CaseRecord;
+  a: EngineAssumptions;
+  lanes: ReturnType<typeof measuredObserverSpeed>;
+  frame: FrameRect;
+  field: ReturnType<typeof fieldOfView>;
+  basis: FrameBasis;
+  frameDraws: ReturnType<typeof cappedDraws>;
+  seed: number;
+  allObjects: Mark[];
+  /** Steps of the progress bar until the pass knows its own: each frame, then each draw of each sign. */
+  total: number;
+  report: AnalysisOptions['onProgress'];
+  passDrawsOption: number | undefined;
+}
+
+export function planAnalysis(c: CaseRecord, options: AnalysisOptions = {}): AnalysisPlan {
   const given = engineAssumptions(c.assumptions, c.marks);
-  const mismatch = dimensionMismatch(c.marks, c.assumptions);
   const lanes = measuredObserverSpeed(c, given.laneCycleId);
   // a speed measured from the clip stands in for the one given
   const a = lanes.speed ? { ...given, observerSpeed: { lo: lanes.speed.speed.lo, hi: lanes.speed.speed.hi } } : given;
   const frame = cameraFrame(c.marks, c.video.width, c.video.height);
   const field = fieldOfView(a, frame);
-  const frameDraws = options.draws === undefined ? cappedDraws(c.marks.filter((m) => m.kind === 'object-span').length, 20_000, FRAME_DRAW_BUDGET) : { draws: options.draws, tail: 0.05, capped: false };
-  const draws = frameDraws.draws;
-  const seed = options.seed ?? 1;
-  const warnings: CaseWarning[] = [];
-  if (field.note) warnings.push({ code: 'portrait-field', text: field.note });
-
   const allObjects = c.marks.filter((m) => m.kind === 'object-span').sort((x, y) => x.t - y.t);
-  const problems: string[] = [];
-  const timestamps: TimestampFigures[] = [];
-  const near = marksIndex(c.marks);
-  const report = options.onProgress;
+  const frameDraws = options.draws === undefined ? cappedDraws(allObjects.length, 20_000, FRAME_DRAW_BUDGET) : { draws: options.draws, tail: 0.05, capped: false };
   // steps: each frame, then each draw of each sign of the pass (counted as if the pass will run)
-  const passSteps = (count: number) => cappedDraws(count, 2_000, PASS_DRAW_BUDGET).draws * signsFor(a.direction).length;
-  let total = allObjects.length + passSteps(allObjects.length);
-  const basis = { a, frame, hfov: field.hfov };
-  for (const [i, m] of allObjects.entries()) {
+  const total = allObjects.length + cappedDraws(allObjects.length, 2_000, PASS_DRAW_BUDGET).draws * signsFor(a.direction).length;
+  return { c, a, lanes, frame, field, basis: { a, frame, hfov: field.hfov }, frameDraws, seed: options.seed ?? 1, allObjects, total, report: options.onProgress, passDrawsOption: options.seriesDraws };
+}
+
+/** Each marked frame alone, for the object's marks [from, to) of the plan: independent of the pass, so another thread may solve them. */
+/** The frames' figures, in the object's time order, and the marks that could not be solved. */
+export interface FramesPart {
+  timestamps: TimestampFigures[];
+  problems: string[];
+}
+
+export interface PassPart {
+  series: PassSummary | null;
+  seriesMissing: string | null;
+  trackMissing: string | null;
+  /** The marks the pass was fitted on (one dimension, one a frame). */
+  objects: Mark[];
+  passDraws: ReturnType<typeof cappedDraws> | null;
+  warnings: CaseWarning[];
+  /** The progress bar's steps, the pass's own draws counted. */
+  total: number;
+}
+
+export function solveFrames(plan: AnalysisPlan, from = 0, to = plan.allObjects.length): FramesPart {
+  const { allObjects, basis, seed, frameDraws, report, total } = plan;
+  const near = marksIndex(plan.c.marks);
+  const timestamps: TimestampFigures[] = [];
+  const problems: string[] = [];
+  for (let i = from; i < to; i++) {
+    const m = allObjects[i]!;
     report?.(i, total);
     try {
       // the overlay's live readout solves a frame with this same function (frame-figures.ts)
-      const f = frameFigures(m, near(m.t), m.t, basis, { draws, seed, tail: frameDraws.tail });
+      const f = frameFigures(m, near(m.t), m.t, basis, { draws: frameDraws.draws, seed, tail: frameDraws.tail });
       timestamps.push({ t: m.t, objectMark: m, spanPx: f.spanPx, result: f.result, landmarkMark: f.landmark, regime: majority(f.result.regimeShares), fitted: null });
     } catch (err) {
       problems.push(`object ends at ${m.t.toFixed(3)} s: ${(err as Error).message}`);
     }
   }
+  return { timestamps, problems };
+}
 
+export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseAnalysis {
+  const plan = planAnalysis(c, options);
+  return finishAnalysis(plan, solveFrames(plan), solvePassPart(plan));
+}
+
+/** The pass over the object's marks, with what it warns of; fitted figures go to the frames in finishAnalysis. */
+export function solvePassPart(plan: AnalysisPlan): PassPart {
+  const { a, allObjects, frame, field, seed, report } = plan;
+  const warnings: CaseWarning[] = [];
+  let total = plan.total;
   // the pass: one span per frame, all of the dimension most of them were marked as
   const counts = new Map<Mark['dimension'], number>();
   for (const m of allObjects) counts.set(m.dimension, (counts.get(m.dimension) ?? 0) + 1);
@@ -105,7 +154,6 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   const needed = a.fixedCamera ? 2 : 3;
   let series: PassSummary | null = null;
   let seriesMissing: string | null = null;
-  let track: TrackSummary | null = null;
   let trackMissing: string | null = a.fixedCamera ? null : 'A ground track needs a camera that kept its aim (a tripod, or a mount fixed to the vehicle): say so in the assumptions.';
   const axis = axisOf(dimension);
   let passDraws: ReturnType<typeof cappedDraws> | null = null;
@@ -115,8 +163,8 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
   } else if (a.fixedCamera?.mount === 'vehicle' && !a.observerSpeed) {
     seriesMissing = trackMissing = 'A ground track from a moving vehicle needs the observer’s speed (given, or measured from lane dashes).';
   } else {
-    const inputs = passInputs(objects, c.marks, a, field.hfov, frame, axis);
-    passDraws = options.seriesDraws === undefined ? cappedDraws(objects.length, 2_000, PASS_DRAW_BUDGET) : { draws: options.seriesDraws, tail: 0.05, capped: false };
+    const inputs = passInputs(objects, plan.c.marks, a, field.hfov, frame, axis);
+    passDraws = plan.passDrawsOption === undefined ? cappedDraws(objects.length, 2_000, PASS_DRAW_BUDGET) : { draws: plan.passDrawsOption, tail: 0.05, capped: false };
     try {
       total = allObjects.length + passDraws.draws * signsFor(a.direction).length;
       const result = solvePass(inputs.scene, signsFor(a.direction), { draws: passDraws.draws, seed, tail: passDraws.tail }, report && ((done) => report(allObjects.length + done, total)));
@@ -133,18 +181,33 @@ export function analyseCase(c: CaseRecord, options: AnalysisOptions = {}): CaseA
         draws: result.draws,
         seed: result.seed,
       };
-      const place = new Map<string, number>();
-      objects.forEach((m, k) => {
-        if (!place.has(m.id)) place.set(m.id, k);
-      });
-      for (const ts of timestamps) {
-        const k = place.get(ts.objectMark.id) ?? -1;
-        if (k >= 0) ts.fitted = lead.marks[k] ?? null;
-      }
       warnings.push(...passWarnings(series, a, objects));
     } catch (err) {
       seriesMissing = `No pass: ${(err as Error).message}`;
       if (a.fixedCamera) trackMissing = `No ground track: ${(err as Error).message}`;
+    }
+  }
+  return { series, seriesMissing, trackMissing, objects, passDraws, warnings, total };
+}
+
+/** The rest of the analysis from the frames alone and the pass: landmark checks, readings, verdicts. */
+export function finishAnalysis(plan: AnalysisPlan, frames: FramesPart, pass: PassPart): CaseAnalysis {
+  const { c, a, lanes, frame, field, frameDraws, allObjects, report } = plan;
+  const { timestamps, problems } = frames;
+  const { series, seriesMissing, trackMissing, objects, passDraws, total } = pass;
+  let track: TrackSummary | null = null;
+  const mismatch = dimensionMismatch(c.marks, c.assumptions);
+  const warnings: CaseWarning[] = [];
+  if (field.note) warnings.push({ code: 'portrait-field', text: field.note });
+  warnings.push(...pass.warnings);
+  if (series) {
+    const place = new Map<string, number>();
+    objects.forEach((m, k) => {
+      if (!place.has(m.id)) place.set(m.id, k);
+    });
+    for (const ts of timestamps) {
+      const k = place.get(ts.objectMark.id) ?? -1;
+      if (k >= 0) ts.fitted = series.lead.marks[k] ?? null;
     }
   }
 

@@ -21,6 +21,7 @@ export type { Settings } from './settings';
 
 // figures and what shows them
 export { analyseCase } from './analysis';
+export { analyseCaseBeside, framesOnly, type PortableFrames } from './frames-part';
 export type { CaseAnalysis, CaseWarning, SpeedReading } from './analysis';
 export { pageFigures, planFor } from './page-analysis';
 export type { PageFigures } from './page-analysis';

@@ -132,15 +132,33 @@ const ANGLE_FLOOR = 0.05 * (Math.PI / 180);
 /** Angle subtended by a span whose length changed by e px along itself, with focal length f. */
 function spanAngleMoved(s: SpanMark, W: number, H: number, focalPx: number, e: number): number {
   spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H, line);
-  const h = spanHalfAngleTanUnchecked(line[0]!, line[1]!, line[2]!, e, 1 / focalPx);
+  return angleFromLine(line, 0, focalPx, e);
+}
+
+function angleFromLine(lines: Float64Array, o: number, focalPx: number, e: number): number {
+  const h = spanHalfAngleTanUnchecked(lines[o]!, lines[o + 1]!, lines[o + 2]!, e, 1 / focalPx);
   return h > 0 ? 2 * Math.atan(h) : Number.NaN;
+}
+
+/**
+ * Every object span's line constants (camera.ts spanLineConstants), three a mark: they depend on the
+ * marked points alone, so a pass finds them once rather than in each of its thousands of draws.
+ */
+export function spanLines(scene: PassScene): Float64Array {
+  const { widthPx: W, heightPx: H } = scene.frame;
+  const out = new Float64Array(3 * scene.marks.length);
+  scene.marks.forEach((m, k) => {
+    const s = m.span;
+    out.set(spanLineConstants(s.x1, s.y1, s.x2, s.y2, W, H, line), 3 * k);
+  });
+  return out;
 }
 
 /**
  * Fills d and v for one draw. `sigmaTheta` are the spans' angle uncertainties for weighting (from the
  * nominal draw), so that every draw weighs its marks alike.
  */
-export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Array, d: PassData, v: DrawValues): void {
+export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Array, d: PassData, v: DrawValues, lines: Float64Array = spanLines(scene)): void {
   const { widthPx: W, heightPx: H } = scene.frame;
   const f = W / 2 / Math.tan(pick.band(scene.hfov) / 2);
   v.focalPx = f;
@@ -213,7 +231,7 @@ export function fillDraw(scene: PassScene, pick: Picker, sigmaTheta: Float64Arra
     const s = m.span;
     d.t[k] = m.t;
     const lengthSd = Math.SQRT2 * s.edgeSigmaPx;
-    d.theta[k] = spanAngleMoved(s, W, H, f, lengthSd * (SHARED_EDGE_SHARE * shared + INDEPENDENT_EDGE_SHARE * pick.normal(1)));
+    d.theta[k] = angleFromLine(lines, 3 * k, f, lengthSd * (SHARED_EDGE_SHARE * shared + INDEPENDENT_EDGE_SHARE * pick.normal(1)));
     d.sTheta[k] = sigmaTheta[k]!;
     const X = (s.x1 + s.x2) / 2 - W / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);
     const Y = H / 2 - (s.y1 + s.y2) / 2 + pick.normal(s.edgeSigmaPx / Math.SQRT2);

@@ -1,6 +1,6 @@
 import { MAX_SPEED_MS } from './constants';
 import { InputError, UndeterminedError } from './errors';
-import { drawValues, fillDraw, NOMINAL, randomPicker, spanSigmas, type PassScene } from './pass-inputs';
+import { drawValues, fillDraw, NOMINAL, randomPicker, spanLines, spanSigmas, type PassScene } from './pass-inputs';
 import { FIT_REPORT, FIT_TOLERANCE, FitOutcome, fitPass, passData, Q, startFromSpans, toPhysical, type PassData } from './pass-fit';
 import { closestApproach, fixedPointFractionAt, P, PASS_PARAMS, relativePosition } from './pass-model';
 import { Rng } from './rng';
@@ -161,7 +161,8 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
   const d = passData(n);
   d.tr = (scene.marks[0]!.t + scene.marks[n - 1]!.t) / 2;
   const v = drawValues(scene);
-  fillDraw(scene, NOMINAL, sig, d, v);
+  const lines = spanLines(scene);
+  fillDraw(scene, NOMINAL, sig, d, v, lines);
   const mask = 0b111 | (v.hasElevation ? 1 << Q.eps : 0) | (v.hasAzimuth ? 1 << Q.beta : 0);
   // thousands of frames: the fit runs on bins of consecutive frames (pass-bins.ts)
   const bins = passBins(n);
@@ -184,7 +185,7 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
   for (const [j, s] of usable.entries()) {
     const rng = new Rng(seed);
     const tick = onDraw ? (i: number) => onDraw(j * draws + i) : undefined;
-    const h = bootstrap(scene, d, sig, s.sgn, s.best, mask, rng, draws, tail, bins, store, tick);
+    const h = bootstrap(scene, d, sig, lines, s.sgn, s.best, mask, rng, draws, tail, bins, store, tick);
     toPhysical(s.best, s.sgn, d.u, phys);
     const nominal = { params: Array.from(phys), u: d.u, tr: d.tr };
     hypotheses.push({ ...h, sign: s.sgn, nominalChi2: s.chi2, residuals: residualCount, ruledOut: s.chi2 - bestChi2 > 9, nominal });
@@ -195,7 +196,7 @@ export function solvePass(scene: PassScene, directions: readonly (-1 | 1)[], opt
 
 type Figures = Omit<PassHypothesis, 'sign' | 'nominalChi2' | 'residuals' | 'ruledOut' | 'nominal'>;
 
-function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number, tail: number, bins: PassBins | null, store: DrawStore | null, tick?: (done: number) => void): Figures {
+function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, lines: Float64Array, sgn: number, start: Float64Array, mask: number, rng: Rng, draws: number, tail: number, bins: PassBins | null, store: DrawStore | null, tick?: (done: number) => void): Figures {
   const n = d0.n;
   const d = passData(n);
   d.tr = d0.tr;
@@ -236,7 +237,7 @@ function bootstrap(scene: PassScene, d0: PassData, sig: Float64Array, sgn: numbe
     let bad = false;
     if (store?.has(i)) bad = store.load(i, d, v, fd);
     else {
-      fillDraw(scene, pick, sig, d, v);
+      fillDraw(scene, pick, sig, d, v, lines);
       for (let k = 0; k < n; k++) if (!(d.theta[k]! > 0)) bad = true;
       if (bins && !bad) aggregate(d, bins, fd);
       store?.keep(i, bad, d, v, fd);

@@ -1,12 +1,17 @@
-import { cameraFrame, fieldOfView, frameFigures } from '../../src/case';
+import { cameraFrame, fieldOfView, frameFigures, workingAssumptions } from '../../src/case';
 import type { EngineAssumptions, FrameBasis, FrameFigures, Mark, ObjectSpan } from '../../src/case';
 
 /** The overlay's draws per solve: 4 000 take well under a millisecond, so the readout can follow a drag. */
 export const LIVE_DRAWS = 4000;
 
-/** The camera frame from the case's marks, and the field across it as the popup takes it (a landscape class's field turned for a portrait picture). */
-export function liveBasis(a: EngineAssumptions, marks: readonly Mark[], videoWidth: number, videoHeight: number): FrameBasis {
-  const frame = cameraFrame(marks, videoWidth, videoHeight);
+/**
+ * What the popup's analysis solves each frame under: the given assumptions with a speed measured
+ * from lane dashes standing in (lane-speed.ts workingAssumptions), the camera frame from the case's
+ * marks, and the field across it (a landscape class's field turned for a portrait picture).
+ */
+export function liveBasis(given: EngineAssumptions, c: { marks: readonly Mark[] }, videoWidth: number, videoHeight: number): FrameBasis {
+  const { a } = workingAssumptions(given, c);
+  const frame = cameraFrame(c.marks, videoWidth, videoHeight);
   return { a, frame, hfov: fieldOfView(a, frame).hfov };
 }
 

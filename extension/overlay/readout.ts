@@ -46,7 +46,7 @@ export class Readout {
     const { videoWidth: w, videoHeight: h } = this.ctx.video;
     const l = this.last;
     if (l && l.a === a && l.marks === marks && l.w === w && l.h === h) return l.basis;
-    const basis = liveBasis(a, marks, w, h);
+    const basis = liveBasis(a, { marks }, w, h);
     this.last = { a, marks, w, h, basis };
     return basis;
   }

@@ -10,7 +10,7 @@ import { checkLandmarks } from './landmark-checks';
 import { allowedReadings, axisOf, fieldOfView, passInputs, signsFor } from './pass-scene';
 import type { CaseRecord, Mark } from './schema';
 import { dimensionMismatch, mismatchText } from './size-match';
-import { measuredObserverSpeed, type LaneSpeed } from './lane-speed';
+import { workingAssumptions, type measuredObserverSpeed, type LaneSpeed } from './lane-speed';
 import { observation, passWarnings, trackSummary } from './pass-figures';
 
 export type { LaneSpeed };
@@ -82,10 +82,7 @@ export interface AnalysisPlan {
 }
 
 export function planAnalysis(c: CaseRecord, options: AnalysisOptions = {}): AnalysisPlan {
-  const given = engineAssumptions(c.assumptions, c.marks);
-  const lanes = measuredObserverSpeed(c, given.laneCycleId);
-  // a speed measured from the clip stands in for the one given
-  const a = lanes.speed ? { ...given, observerSpeed: { lo: lanes.speed.speed.lo, hi: lanes.speed.speed.hi } } : given;
+  const { a, lanes } = workingAssumptions(engineAssumptions(c.assumptions, c.marks), c);
   const frame = cameraFrame(c.marks, c.video.width, c.video.height);
   const field = fieldOfView(a, frame);
   const allObjects = c.marks.filter((m) => m.kind === 'object-span').sort((x, y) => x.t - y.t);

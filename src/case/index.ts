@@ -57,6 +57,7 @@ export type { EndResult } from '../engine/span-ends';
 export { fieldOfView } from './camera-fields';
 export { marksCsv } from './csv';
 export { frameFigures } from './frame-figures';
+export { workingAssumptions } from './lane-speed';
 export type { FrameBasis, FrameFigures, ObjectSpan } from './frame-figures';
 export { cameraFrame, marksAt } from './frames';
 export type { Headline } from './headline';

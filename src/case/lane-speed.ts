@@ -1,5 +1,6 @@
 import { laneCycleById, observerSpeedFromDashes } from '../engine/lanes';
-import type { CaseRecord } from './schema';
+import type { EngineAssumptions } from './assumptions';
+import type { Mark } from './schema';
 
 /*
  * The observer's speed measured from the clip: lane dashes passing a reference, on a published
@@ -24,7 +25,7 @@ export interface LaneSpeed {
  */
 const PASS_TOLERANCE_CYCLES = 0.25;
 
-export function measuredObserverSpeed(c: CaseRecord, cycleId: string | null): { speed: LaneSpeed | null; missing: string | null } {
+export function measuredObserverSpeed(c: { marks: readonly Mark[] }, cycleId: string | null): { speed: LaneSpeed | null; missing: string | null } {
   const passes = c.marks.filter((m) => m.kind === 'lane-dash').sort((x, y) => x.t - y.t);
   if (!cycleId) return { speed: null, missing: passes.length ? 'Lane-dash passes are marked: choose the road’s lane-line cycle to measure the observer’s speed from them.' : null };
   if (passes.length < 2) return { speed: null, missing: `Measuring the observer’s speed needs 2 or more lane-dash passes (${passes.length} so far).` };
@@ -39,3 +40,12 @@ export function measuredObserverSpeed(c: CaseRecord, cycleId: string | null): { 
   }
 }
 
+
+/**
+ * The assumptions a case's figures rest on: a speed measured from the clip's lane dashes stands in
+ * for the observer's speed given. The popup's analysis and the overlay's live readout both start here.
+ */
+export function workingAssumptions(given: EngineAssumptions, c: { marks: readonly Mark[] }): { a: EngineAssumptions; lanes: ReturnType<typeof measuredObserverSpeed> } {
+  const lanes = measuredObserverSpeed(c, given.laneCycleId);
+  return { a: lanes.speed ? { ...given, observerSpeed: { lo: lanes.speed.speed.lo, hi: lanes.speed.speed.hi } } : given, lanes };
+}

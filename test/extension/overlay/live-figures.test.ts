@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyseCase } from '../../../src/case/analysis';
-import { defaultAssumptions } from '../../../src/case/assumptions';
+import { defaultAssumptions, engineAssumptions } from '../../../src/case/assumptions';
 import { newCase, upsertMark, withAssumptions } from '../../../src/case/marks';
 import type { Mark } from '../../../src/case/schema';
 import { LIVE_DRAWS, liveBasis, liveFigures } from '../../../extension/overlay/live-figures';
@@ -31,6 +31,22 @@ describe('liveFigures', () => {
     expect(live!.result.impliedSpeed).toBeDefined();
   });
 
+  it("takes the observer's speed measured from lane dashes, as the popup does, not the one given", () => {
+    // four invented passes of a US broken line's leading edge, 0.5 s apart: 3 cycles of 12.192 m
+    // (MUTCD 2009, section 3A.06) in 1.5 s, 24.4 m/s against the 20-25 m/s given
+    let c = invented();
+    [0.2, 0.7, 1.2, 1.7].forEach((t, i) => {
+      c = upsertMark(c, { id: `d${i}`, kind: 'lane-dash', t, points: [{ x: 300, y: 640 }], edgeSigmaPx: 0.5, mapping, createdAt: 1 }, 4 + i);
+    });
+    c = withAssumptions(c, { ...c.assumptions!, laneCycleId: 'us-broken' }, 9);
+    const r = analyseCase(c, { draws: LIVE_DRAWS, seed: 1 });
+    expect(r.laneSpeed).not.toBeNull();
+    // what the overlay's readout starts from: the case's given assumptions and its marks
+    const basis = liveBasis(engineAssumptions(c.assumptions, c.marks), c, 1280, 720);
+    expect(basis.a.observerSpeed).toEqual(r.assumptions.observerSpeed);
+    expect(liveFigures(obj, c.marks.filter((m) => m.t === 1), 1, basis)!.result).toEqual(r.timestamps[0]!.result);
+  });
+
   it('is null while a dragged span is shorter than half a pixel, the engine shortest span', () => {
     const c = invented();
     const r = analyseCase(c, { draws: 300, seed: 1 });
@@ -53,7 +69,7 @@ describe('liveFigures', () => {
     c = withAssumptions(upsertMark(c, o, 2), { ...defaultAssumptions(), observerSpeedMs: { lo: 20, hi: 25 } }, 3);
     const r = analyseCase(c, { draws: LIVE_DRAWS, seed: 1 });
     expect(r.field.portrait).toBe(true);
-    const basis = liveBasis(r.assumptions, c.marks, 720, 1280);
+    const basis = liveBasis(r.assumptions, c, 720, 1280);
     expect(basis.hfov).toEqual(r.field.hfov);
     expect(basis.hfov.hi).toBeLessThan(r.assumptions.hfov.lo);
     expect(liveFigures(o, c.marks, 1, basis)!.result).toEqual(r.timestamps[0]!.result);

@@ -1,5 +1,6 @@
 import { Chooser } from './chooser';
 import { inputPolicy } from './dom';
+import type { FrameReply } from '../shared/frames';
 import { MeasureSession } from './session';
 import { dropShell, takePreferredSrc, type CallUpStatus } from './shell';
 import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
@@ -15,6 +16,8 @@ interface Registry {
   run(): void;
   /** What this frame shows after a call-up (the call-up asks, so that drawing nothing is said). */
   status(): CallUpStatus;
+  /** A frame of the measured video for an extension page (frame-server.ts); the scripting API asks. */
+  frame(req: unknown): Promise<FrameReply>;
 }
 
 
@@ -98,9 +101,15 @@ function status(this: Registry): CallUpStatus {
   return 'none';
 }
 
-const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run, status };
+function frame(this: Registry, req: unknown): Promise<FrameReply> {
+  const open = [...this.sessions.values()][0];
+  return open ? open.frame(req) : Promise.resolve({ ok: false, reason: 'no-session' });
+}
+
+const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run, status, frame };
 // a registry left by an earlier build of the overlay in this world lacks what this one added
 reg.status ??= status;
+reg.frame ??= frame;
 g[KEY] = reg;
 reg.run();
 // a shell the first stage drew for a video this run did not mount (the page changed meanwhile)

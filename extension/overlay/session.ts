@@ -10,6 +10,8 @@ import { OverlayHost } from './host';
 import { initKeys, type KeyAction } from './keys';
 import { VideoMapping } from './mapping';
 import { addMarkLayers, panelParts } from './panel';
+import type { FrameReply } from '../shared/frames';
+import { serveFrame } from './frame-server';
 import { FramePixels } from './pixels';
 import { initPointer, Magnifier } from './pointer';
 import { Readout } from './readout';
@@ -183,6 +185,14 @@ export class MeasureSession {
     const { state } = this.ctx;
     if (!state.dimensionPicked && assumed && assumed !== state.dimension) this.tools.showDimension(assumed);
     this.redraw();
+  }
+
+  /** A frame for an extension page that measures every frame (frame-server.ts). */
+  frame(req: unknown): Promise<FrameReply> {
+    return serveFrame(this.video, async () => {
+      const img = await this.pixels.get();
+      return img ? { img, direct: this.pixels.direct } : null;
+    }, req);
   }
 
   private describeVideo(): void {

@@ -21,7 +21,19 @@ function Cautions() {
 
 // The e2e build lets the browser tests and the bench call the overlay up exactly as the button
 // below does (nothing can click the toolbar in a test); the shipped build has no such door.
-if (import.meta.env.MODE === 'e2e') (globalThis as { clipCaliperE2E?: unknown }).clipCaliperE2E = { callUp: injectOverlay, firstStage, afterNextFrame };
+if (import.meta.env.MODE === 'e2e') {
+  (globalThis as { clipCaliperE2E?: unknown }).clipCaliperE2E = {
+    callUp: injectOverlay,
+    firstStage,
+    afterNextFrame,
+    // frames as the follower's page will read them (issue 15), returned whole for the test to check
+    readPageFrame: (tabId: number, frameId: number, req: import('../shared/frames').FrameRequest) =>
+      import('../follow/page-frames').then((m) => m.readPageFrame(tabId, frameId, req)).then(
+        (f) => ({ ...f, gray: { ...f.gray, data: Array.from(f.gray.data) } }),
+        (e: { reason?: string; message: string }) => ({ error: e.reason ?? e.message }),
+      ),
+  };
+}
 
 function MeasureButton() {
   const [error, setError] = useState<string | null>(null);

@@ -134,6 +134,19 @@ export async function callUpAsPopup(app: Loaded, tabId: number, options: { overl
   );
 }
 
+/** A frame of the video measured in the tab, read as the follower's page reads it (extension/follow/page-frames.ts); data as a plain array. */
+export async function readPageFrameAsPopup(
+  app: Loaded,
+  tabId: number,
+  req: { t: number; x: number; y: number; width: number; height: number; step: number },
+): Promise<{ gray: { data: number[]; width: number; height: number; channels: 1 }; t: number; x: number; y: number; step: number; source: string } | { error: string }> {
+  const page = await extensionPage(app);
+  return page.evaluate(
+    ({ id, r }) => (globalThis as unknown as { clipCaliperE2E: { readPageFrame(tabId: number, frameId: number, req: object): Promise<never> } }).clipCaliperE2E.readPageFrame(id, 0, r),
+    { id: tabId, r: req },
+  );
+}
+
 /** Every stored case (the extension's local storage, read from its own page). */
 export async function storedCases(app: Loaded): Promise<Record<string, unknown>> {
   const page = await extensionPage(app);

@@ -1,0 +1,51 @@
+import type { Gray } from '../../src/case';
+import { browser } from '../shared/browser';
+import type { FrameReply, FrameRequest } from '../shared/frames';
+
+/*
+ * Frames of the measured video, read from an extension page (the work of following the object runs
+ * here and in its workers, never on the page under review's thread). Each frame is asked of the
+ * overlay in the tab through the scripting API (overlay/frame-server.ts): the answer comes straight
+ * back to the extension, so the page can neither read nor forge it.
+ */
+
+/** A frame as the engine takes it: luma of the region asked for, with where it lies in the video. */
+export interface PageFrame {
+  gray: Gray;
+  /** The media time the video showed, s. */
+  t: number;
+  /** The region's top-left corner in the video's intrinsic pixels, and its block side. */
+  x: number;
+  y: number;
+  step: number;
+  /** 'video': the video's own pixels; 'capture': the tab's picture (a video from another site). */
+  source: 'video' | 'capture';
+}
+
+export class FrameReadError extends Error {
+  constructor(readonly reason: Exclude<FrameReply, { ok: true }>['reason'] | 'no-answer') {
+    super(`frame not read: ${reason}`);
+  }
+}
+
+/** Self-contained (it runs in the tab's isolated world): hands the request to the overlay there. */
+function askOverlay(req: FrameRequest): Promise<FrameReply> | FrameReply {
+  const reg = (globalThis as unknown as Record<symbol, { frame?: (r: unknown) => Promise<FrameReply> } | undefined>)[Symbol.for('clip-caliper.overlay')];
+  return reg?.frame ? reg.frame(req) : { ok: false, reason: 'no-session' };
+}
+
+export function decodeFrame(r: Extract<FrameReply, { ok: true }>): PageFrame {
+  const bin = atob(r.luma);
+  const data = new Uint8ClampedArray(bin.length);
+  for (let k = 0; k < bin.length; k++) data[k] = bin.charCodeAt(k);
+  return { gray: { data, width: r.width, height: r.height, channels: 1 }, t: r.t, x: r.x, y: r.y, step: r.step, source: r.source };
+}
+
+/** The frame at req.t of the video measured in the tab (and frame) given. */
+export async function readPageFrame(tabId: number, frameId: number, req: FrameRequest): Promise<PageFrame> {
+  const results = await browser.scripting.executeScript({ target: { tabId, frameIds: [frameId] }, func: askOverlay, args: [req] });
+  const reply = results[0]?.result as FrameReply | undefined;
+  if (!reply) throw new FrameReadError('no-answer');
+  if (!reply.ok) throw new FrameReadError(reply.reason);
+  return decodeFrame(reply);
+}

@@ -1,0 +1,88 @@
+import type { Gray } from '../../src/case';
+import { MAX_STEP, type FrameReply, type FrameRequest } from '../shared/frames';
+
+/*
+ * Frames for an extension page that measures every frame (issue 15: following the object, the
+ * landscape's turn). The page asks through the scripting API, whose answer goes straight back to
+ * the extension: the page under review never sees it. This side only seeks, reads and packs; the
+ * work is done off the page's thread, in the extension's own page.
+ *
+ * A frame crosses as 8-bit luma (ITU-R BT.709 weights, as gray.ts) in base64, for a region of the
+ * video's intrinsic pixels, averaged over step x step blocks: the follower asks for a window round
+ * the object at full resolution, the landscape for the whole picture at a coarser step.
+ */
+
+/** A seek that has not landed by then is given up (a stalled network, a page holding its thread). */
+export const SEEK_MS = 4_000;
+
+export function checkRequest(r: unknown): r is FrameRequest {
+  const q = r as FrameRequest;
+  const num = (v: unknown) => typeof v === 'number' && Number.isFinite(v);
+  return (
+    typeof r === 'object' && r !== null &&
+    num(q.t) && q.t >= 0 && num(q.x) && num(q.y) && num(q.width) && num(q.height) && q.width >= 1 && q.height >= 1 &&
+    Number.isInteger(q.step) && q.step >= 1 && q.step <= MAX_STEP
+  );
+}
+
+/** Shows the frame at t: pauses, seeks, and waits for the browser's own 'seeked' (a page's forged event is not it). */
+export async function seekTo(video: HTMLVideoElement, t: number, ms = SEEK_MS): Promise<boolean> {
+  video.pause();
+  if (Math.abs(video.currentTime - t) < 1e-6 && !video.seeking) return true;
+  const view = video.ownerDocument.defaultView ?? window;
+  return new Promise<boolean>((done) => {
+    const timer = view.setTimeout(() => finish(false), ms);
+    const onSeeked = (e: Event) => {
+      if (e.isTrusted) finish(true);
+    };
+    function finish(ok: boolean): void {
+      view.clearTimeout(timer);
+      video.removeEventListener('seeked', onSeeked);
+      done(ok);
+    }
+    video.addEventListener('seeked', onSeeked);
+    video.currentTime = t;
+  });
+}
+
+/** The region of `img` (RGBA or luma) as step-averaged 8-bit luma, packed in base64. */
+export function packLuma(img: Gray, req: FrameRequest): { x: number; y: number; width: number; height: number; luma: string } {
+  const x0 = Math.max(0, Math.min(img.width - 1, Math.floor(req.x)));
+  const y0 = Math.max(0, Math.min(img.height - 1, Math.floor(req.y)));
+  const s = req.step;
+  const w = Math.max(1, Math.floor((Math.min(img.width, Math.floor(req.x + req.width)) - x0) / s));
+  const h = Math.max(1, Math.floor((Math.min(img.height, Math.floor(req.y + req.height)) - y0) / s));
+  const out = new Uint8Array(w * h);
+  const d = img.data;
+  const c = img.channels;
+  for (let j = 0; j < h; j++) {
+    for (let i = 0; i < w; i++) {
+      let sum = 0;
+      let n = 0;
+      for (let b = 0; b < s; b++) {
+        const yy = y0 + j * s + b;
+        if (yy >= img.height) break;
+        for (let a = 0; a < s; a++) {
+          const xx = x0 + i * s + a;
+          if (xx >= img.width) break;
+          const k = (yy * img.width + xx) * c;
+          sum += c === 1 ? d[k]! : 0.2126 * d[k]! + 0.7152 * d[k + 1]! + 0.0722 * d[k + 2]!;
+          n++;
+        }
+      }
+      out[j * w + i] = Math.round(sum / n);
+    }
+  }
+  let bin = '';
+  for (let k = 0; k < out.length; k += 0x8000) bin += String.fromCharCode(...out.subarray(k, k + 0x8000));
+  return { x: x0, y: y0, width: w, height: h, luma: btoa(bin) };
+}
+
+/** One frame for an extension page: seek, read (the video's pixels, else the tab's picture), pack. */
+export async function serveFrame(video: HTMLVideoElement, read: () => Promise<{ img: Gray; direct: boolean } | null>, req: unknown): Promise<FrameReply> {
+  if (!checkRequest(req)) return { ok: false, reason: 'bad-request' };
+  if (!(await seekTo(video, req.t))) return { ok: false, reason: 'seek-timeout' };
+  const got = await read();
+  if (!got) return { ok: false, reason: 'no-pixels' };
+  return { ok: true, t: video.currentTime, step: req.step, source: got.direct ? 'video' : 'capture', ...packLuma(got.img, req) };
+}

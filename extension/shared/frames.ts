@@ -1,0 +1,25 @@
+/*
+ * The contract for frames an extension page reads from the measured video (issue 15): asked through
+ * the scripting API, served by the overlay (overlay/frame-server.ts), read by the page
+ * (follow/page-frames.ts). A frame is 8-bit luma in base64 for a region of the video's intrinsic
+ * pixels, averaged over step x step blocks.
+ */
+
+export interface FrameRequest {
+  /** Media time to show, s. */
+  t: number;
+  /** The region, intrinsic px (clamped to the picture). */
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+  /** Block side, 1 (full resolution) to MAX_STEP. */
+  step: number;
+}
+
+export type FrameReply =
+  | { ok: true; t: number; x: number; y: number; width: number; height: number; step: number; source: 'video' | 'capture'; luma: string }
+  | { ok: false; reason: 'bad-request' | 'no-session' | 'no-pixels' | 'seek-timeout' };
+
+/** The coarsest block side a page may ask for. */
+export const MAX_STEP = 16;

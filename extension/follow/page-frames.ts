@@ -1,3 +1,4 @@
+import frameServerFile from '../overlay/frame-entry.ts?script&iife';
 import type { Gray } from '../../src/case';
 import { browser } from '../shared/browser';
 import type { FrameReply, FrameRequest } from '../shared/frames';
@@ -41,9 +42,18 @@ export function decodeFrame(r: Extract<FrameReply, { ok: true }>): PageFrame {
   return { gray: { data, width: r.width, height: r.height, channels: 1 }, t: r.t, x: r.x, y: r.y, step: r.step, source: r.source };
 }
 
+/** Self-contained: whether the frame server is already hung on the overlay's registry there. */
+function serverThere(): boolean {
+  return !!(globalThis as unknown as Record<symbol, { frame?: unknown } | undefined>)[Symbol.for('clip-caliper.overlay')]?.frame;
+}
+
 /** The frame at req.t of the video measured in the tab (and frame) given. */
 export async function readPageFrame(tabId: number, frameId: number, req: FrameRequest): Promise<PageFrame> {
-  const results = await browser.scripting.executeScript({ target: { tabId, frameIds: [frameId] }, func: askOverlay, args: [req] });
+  const target = { tabId, frameIds: [frameId] };
+  // the server comes with the first request (a page that navigated since loses it with the overlay)
+  const [there] = await browser.scripting.executeScript({ target, func: serverThere });
+  if (!there?.result) await browser.scripting.executeScript({ target, files: [frameServerFile] });
+  const results = await browser.scripting.executeScript({ target, func: askOverlay, args: [req] });
   const reply = results[0]?.result as FrameReply | undefined;
   if (!reply) throw new FrameReadError('no-answer');
   if (!reply.ok) throw new FrameReadError(reply.reason);

@@ -10,14 +10,14 @@ import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
  * second injection finds the registry the first one left and does not mount again: it focuses the
  * open session, or offers the chooser when no session is open.
  */
-interface Registry {
+export interface Registry {
   sessions: Map<HTMLVideoElement, MeasureSession>;
   chooser: Chooser | null;
   run(): void;
   /** What this frame shows after a call-up (the call-up asks, so that drawing nothing is said). */
   status(): CallUpStatus;
-  /** A frame of the measured video for an extension page (frame-server.ts); the scripting API asks. */
-  frame(req: unknown): Promise<FrameReply>;
+  /** A frame of the measured video for an extension page: set by frame-server.ts, injected only when a page asks. */
+  frame?: (req: unknown) => Promise<FrameReply>;
 }
 
 
@@ -101,15 +101,9 @@ function status(this: Registry): CallUpStatus {
   return 'none';
 }
 
-function frame(this: Registry, req: unknown): Promise<FrameReply> {
-  const open = [...this.sessions.values()][0];
-  return open ? open.frame(req) : Promise.resolve({ ok: false, reason: 'no-session' });
-}
-
-const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run, status, frame };
+const reg: Registry = g[KEY] ?? { sessions: new Map(), chooser: null, run, status };
 // a registry left by an earlier build of the overlay in this world lacks what this one added
 reg.status ??= status;
-reg.frame ??= frame;
 g[KEY] = reg;
 reg.run();
 // a shell the first stage drew for a video this run did not mount (the page changed meanwhile)

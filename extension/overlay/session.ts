@@ -1,5 +1,5 @@
 import { assumedDimension } from '../../src/case';
-import type { CaseRecord, UnitSystem } from '../../src/case';
+import type { CaseRecord, Gray, UnitSystem } from '../../src/case';
 import { message } from '../shared/native';
 import { loadSettings, onSettingsChanged } from '../shared/settings';
 import { forceStyle, trusted } from './dom';
@@ -10,8 +10,6 @@ import { OverlayHost } from './host';
 import { initKeys, type KeyAction } from './keys';
 import { VideoMapping } from './mapping';
 import { addMarkLayers, panelParts } from './panel';
-import type { FrameReply } from '../shared/frames';
-import { serveFrame } from './frame-server';
 import { FramePixels } from './pixels';
 import { initPointer, Magnifier } from './pointer';
 import { Readout } from './readout';
@@ -187,12 +185,10 @@ export class MeasureSession {
     this.redraw();
   }
 
-  /** A frame for an extension page that measures every frame (frame-server.ts). */
-  frame(req: unknown): Promise<FrameReply> {
-    return serveFrame(this.video, async () => {
-      const img = await this.pixels.get();
-      return img ? { img, direct: this.pixels.direct } : null;
-    }, req);
+  /** The shown frame's pixels and whether they are the video's own (else the tab's picture): the frame server's source. */
+  async readPixels(): Promise<{ img: Gray; direct: boolean } | null> {
+    const img = await this.pixels.get();
+    return img ? { img, direct: this.pixels.direct } : null;
   }
 
   private describeVideo(): void {

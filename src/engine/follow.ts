@@ -1,5 +1,5 @@
 import { InputError } from './errors';
-import { checkGray, type Gray } from './gray';
+import { checkGray, noiseSigma, type Gray } from './gray';
 import { cutTemplate, matchTemplate, type Template } from './match';
 import { centreAcross } from './span-across';
 import { snapSpanEnds, SNAP_FLOOR_PX, type EndInput } from './span-ends';
@@ -80,7 +80,7 @@ export interface FollowedFrame {
   ends: readonly [FollowedEnd, FollowedEnd] | null;
   /** 0 to 1: the weaker end's match above the threshold times how close the ends' sigmas come to the snap's floor. */
   confidence: number;
-  /** The weaker end's NCC peak (NaN where no match was made). */
+  /** The weaker end's NCC peak over the most the picture's noise lets it reach (NaN where no match was made). */
   match: number;
   /** The hand-marked frame this frame was followed from (its own index for a seed). */
   from: number;
@@ -97,6 +97,8 @@ const EDGE_MARGIN_PX = 3;
 /** A key patch is cut again when its match falls below this or the span changed by this share. */
 const REFRESH_MATCH = 0.95;
 const REFRESH_SPAN = 0.1;
+/** Least share of a patch's variance that must be the picture's rather than the noise's. */
+const MIN_CEILING = 0.5;
 /** The wider window after a loss grows to at most this many times searchPx. */
 const MAX_WIDEN = 4;
 
@@ -108,6 +110,11 @@ interface Key {
   t: Template;
   /** The end the patch was cut around. */
   at: Pt;
+  /**
+   * The most NCC can reach against this patch in a frame as noisy as the one it was cut from:
+   * S / (S + N) with S the patch's variance less the noise's N, both frames carrying noise N.
+   */
+  ceiling: number;
 }
 interface Track {
   index: number;
@@ -224,7 +231,11 @@ function cutKeys(img: Gray, track: Track): void {
   const side = Math.min(33, Math.max(9, 2 * Math.round(len / 4) + 1));
   const keys = track.ends.map((e) => {
     const t = cutTemplate(img, Math.round(e.x) - (side >> 1), Math.round(e.y) - (side >> 1), side, side);
-    return t ? { t, at: { x: e.x, y: e.y } } : null;
+    if (!t) return null;
+    const noise = noiseSigma(img, e.x, e.y, 1, 0, side >> 1) ** 2;
+    const ceiling = Math.max(0, t.variance - noise) / t.variance;
+    // a patch that is mostly noise cannot be followed
+    return ceiling >= MIN_CEILING ? { t, at: { x: e.x, y: e.y }, ceiling } : null;
   });
   track.keys = keys[0] && keys[1] ? [keys[0], keys[1]] : null;
   track.keyLength = len;
@@ -268,8 +279,10 @@ function step(img: Gray, k: number, track: Track, s: FollowSettings, from: numbe
   for (let i = 0; i < 2; i++) {
     const key = track.keys[i]!;
     const m = matchTemplate(img, key.t, pred[i]!.x - key.at.x, pred[i]!.y - key.at.y, radius);
-    weakest = Math.min(weakest, m.score);
-    if (m.atEdge || !(m.score >= least)) return lostFrame(k, 'no match', from, m.score);
+    // the thresholds hold for a clean picture; noise lowers every score by the patch's ceiling
+    const score = m.score / key.ceiling;
+    weakest = Math.min(weakest, score);
+    if (m.atEdge || !(score >= least)) return lostFrame(k, 'no match', from, m.score);
     found.push({ x: key.at.x + m.dx, y: key.at.y + m.dy });
   }
   const [f1, f2] = found as [Pt, Pt];

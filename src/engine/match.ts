@@ -25,6 +25,8 @@ export interface Template {
   half: Float32Array;
   w2: number;
   h2: number;
+  /** Luma variance over the patch before normalising, grey levels squared. */
+  variance: number;
 }
 
 export interface Match {
@@ -62,8 +64,8 @@ function halve(src: Float32Array, w: number, h: number): Float32Array {
   return out;
 }
 
-/** Zero mean, unit norm in place; false when the patch is flat (nothing to match). */
-function normalise(a: Float32Array): boolean {
+/** Zero mean, unit norm in place; the variance it had, or 0 when the patch is flat (nothing to match). */
+function normalise(a: Float32Array): number {
   let s = 0;
   for (let k = 0; k < a.length; k++) s += a[k]!;
   const m = s / a.length;
@@ -74,18 +76,19 @@ function normalise(a: Float32Array): boolean {
     q += v * v;
   }
   // below a hundredth of a grey level per pixel there is no structure to follow
-  if (!(q > 1e-4 * a.length)) return false;
+  if (!(q > 1e-4 * a.length)) return 0;
   const r = 1 / Math.sqrt(q);
   for (let k = 0; k < a.length; k++) a[k] = a[k]! * r;
-  return true;
+  return q / a.length;
 }
 
 /** The w x h patch with its top-left cell at (left, top), or null when it has no structure. */
 export function cutTemplate(img: Gray, left: number, top: number, w: number, h: number): Template | null {
   const raw = cutBlock(img, left, top, w, h);
   const half = halve(raw, w, h);
-  if (!normalise(raw) || !normalise(half)) return null;
-  return { data: raw, w, h, left, top, half, w2: w >> 1, h2: h >> 1 };
+  const variance = normalise(raw);
+  if (!variance || !normalise(half)) return null;
+  return { data: raw, w, h, left, top, half, w2: w >> 1, h2: h >> 1, variance };
 }
 
 /** NCC of a normalised template against the region's block at (ox, oy) (region row width rw). */

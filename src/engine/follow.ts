@@ -175,13 +175,13 @@ export function follow(source: FrameSource, seed: FollowSeed, options: Partial<F
  * the correction; every other frame (the near side, other hand marks and what was followed from them)
  * stays as it was. Correcting a hand mark itself re-runs both of its sides.
  */
-export function reseed(run: FollowRun, source: FrameSource, correction: FollowSeed, options: Partial<FollowSettings> = {}): FollowRun {
-  const s = run.settings;
-  settle(source, { ...options, first: s.first, last: s.last });
+export function reseed(run: FollowRun, source: FrameSource, correction: FollowSeed): FollowRun {
+  // the same settings as the run, so that every frame of it was followed alike
+  const s = settle(source, run.settings);
+  if (run.frames.length !== s.last - s.first + 1) throw new InputError('run frames', run.frames.length, `${s.last - s.first + 1} (first to last frame)`);
   integer('corrected frame', correction.frame, s.first, s.last);
   const c = correction.frame;
-  const at = run.frames[c - s.first]!;
-  const origin = at.from;
+  const origin = run.frames[c - s.first]!.from;
   // the stretch of frames followed from the same mark, on the correction's side of it
   const same = (k: number) => k >= s.first && k <= s.last && run.frames[k - s.first]!.from === origin && run.frames[k - s.first]!.status !== 'seed';
   let lo = c;
@@ -189,12 +189,24 @@ export function reseed(run: FollowRun, source: FrameSource, correction: FollowSe
   if (c >= origin) while (same(hi + 1)) hi++;
   if (c <= origin) while (same(lo - 1)) lo--;
   const frames = run.frames.slice();
-  const settings: FollowSettings = { ...s, ...options, first: s.first, last: s.last };
-  followFrom(reader(source), correction, settings, lo, hi, frames, s.first);
+  followFrom(reader(source), correction, s, lo, hi, frames, s.first);
   return { settings: s, frames };
 }
 
+function checkSeed(seed: FollowSeed): void {
+  if (typeof seed !== 'object' || seed === null || !Array.isArray(seed.ends) || seed.ends.length !== 2) {
+    throw new InputError('seed', seed, 'an object with frame and two ends');
+  }
+  seed.ends.forEach((e: EndInput, k) => {
+    if (typeof e !== 'object' || e === null) throw new InputError(`seed end ${k + 1}`, e, 'an object with x, y, sigmaPx');
+    inRange(`seed end ${k + 1} x`, e.x, -1e6, 1e6, ' px');
+    inRange(`seed end ${k + 1} y`, e.y, -1e6, 1e6, ' px');
+    inRange(`seed end ${k + 1} sigma`, e.sigmaPx, 0, 50, ' px');
+  });
+}
+
 function followFrom(read: (i: number) => Gray, seed: FollowSeed, s: FollowSettings, lo: number, hi: number, out: FollowedFrame[], base = lo): void {
+  checkSeed(seed);
   integer('seed frame', seed.frame, lo, hi);
   const img = read(seed.frame);
   // a hand mark refined as the followed ends are; if either end finds no edge, the mark stands as placed

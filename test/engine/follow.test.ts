@@ -237,6 +237,7 @@ describe('bad input', () => {
   it('names the field and the range', () => {
     expectInputError(() => follow(framesOf([g, g]), { frame: 2, ends }), 'seed frame');
     expectInputError(() => follow(framesOf([g, g]), { frame: 0, ends }, { minMatch: 1.5 }), 'least match');
+    expectInputError(() => follow(framesOf([g, g]), { frame: 0, ends: [ends[0], { x: Number.NaN, y: 8, sigmaPx: 0.5 }] }), 'seed end 2 x');
     expectInputError(() => follow(framesOf([g, { ...g, width: 8, data: new Float32Array(8 * 16) }]), { frame: 0, ends }), 'frame 1 size');
   });
 });

@@ -6,6 +6,7 @@ import { logBench } from './log';
 import { largeCaseBench } from './large-case';
 import { popupLargeBench } from './popup-large';
 import { validateBench } from './validate';
+import { followBench } from './follow';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -27,6 +28,7 @@ caseBench();
 largeCaseBench();
 validateBench();
 await importBench();
+followBench();
 
 await overlayBench();
 await logBench();

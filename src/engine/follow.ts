@@ -139,11 +139,10 @@ function settle(source: FrameSource, options: Partial<FollowSettings>): FollowSe
   return s;
 }
 
-/** A frame from the source, checked and held to the size of the first one read. */
-function reader(source: FrameSource): (index: number) => Gray {
+/** A frame as given, checked and held to the size of the first one given. */
+function sizeKeeper(): (img: Gray, index: number) => Gray {
   let size: { width: number; height: number } | null = null;
-  return (index) => {
-    const img = source.frame(index);
+  return (img, index) => {
     checkGray(img);
     if (size && (img.width !== size.width || img.height !== size.height)) {
       throw new InputError(`frame ${index} size`, `${img.width} x ${img.height}`, `${size.width} x ${size.height} (the seed frame's)`);
@@ -165,7 +164,7 @@ export function framesOf(frames: readonly Gray[]): FrameSource {
 export function follow(source: FrameSource, seed: FollowSeed, options: Partial<FollowSettings> = {}): FollowRun {
   const s = settle(source, options);
   const frames: FollowedFrame[] = new Array<FollowedFrame>(s.last - s.first + 1);
-  followFrom(reader(source), seed, s, s.first, s.last, frames);
+  followFrom(source, seed, s, s.first, s.last, frames);
   return { settings: s, frames };
 }
 
@@ -189,7 +188,7 @@ export function reseed(run: FollowRun, source: FrameSource, correction: FollowSe
   if (c >= origin) while (same(hi + 1)) hi++;
   if (c <= origin) while (same(lo - 1)) lo--;
   const frames = run.frames.slice();
-  followFrom(reader(source), correction, s, lo, hi, frames, s.first);
+  followFrom(source, correction, s, lo, hi, frames, s.first);
   return { settings: s, frames };
 }
 
@@ -205,10 +204,28 @@ function checkSeed(seed: FollowSeed): void {
   });
 }
 
-function followFrom(read: (i: number) => Gray, seed: FollowSeed, s: FollowSettings, lo: number, hi: number, out: FollowedFrame[], base = lo): void {
+/**
+ * The follow one frame at a time, for a caller whose frames arrive one by one (an extension page
+ * reading them from the video): yields the index of the frame it needs next and takes that frame
+ * back through next(); `out` holds each frame's result as soon as it is known. follow() drives the
+ * same steps from a source at hand, so both give the same run.
+ */
+export function followSteps(count: number, seed: FollowSeed, options: Partial<FollowSettings> = {}): { run: FollowRun; steps: Generator<number, void, Gray> } {
+  const s = settle({ count, frame: () => ({ data: new Uint8ClampedArray(1), width: 1, height: 1, channels: 1 }) }, options);
+  const frames: FollowedFrame[] = new Array<FollowedFrame>(s.last - s.first + 1);
+  return { run: { settings: s, frames }, steps: stepsFrom(seed, s, s.first, s.last, frames, s.first) };
+}
+
+function followFrom(source: FrameSource, seed: FollowSeed, s: FollowSettings, lo: number, hi: number, out: FollowedFrame[], base = lo): void {
+  const steps = stepsFrom(seed, s, lo, hi, out, base);
+  for (let r = steps.next(); !r.done; ) r = steps.next(source.frame(r.value));
+}
+
+function* stepsFrom(seed: FollowSeed, s: FollowSettings, lo: number, hi: number, out: FollowedFrame[], base: number): Generator<number, void, Gray> {
   checkSeed(seed);
   integer('seed frame', seed.frame, lo, hi);
-  const img = read(seed.frame);
+  const sized = sizeKeeper();
+  const img = sized(yield seed.frame, seed.frame);
   // a hand mark refined as the followed ends are; if either end finds no edge, the mark stands as placed
   const ends = refine(img, seed.ends[0], seed.ends[1], seed.ends) ?? ([{ ...seed.ends[0] }, { ...seed.ends[1] }] as [FollowedEnd, FollowedEnd]);
   out[seed.frame - base] = { index: seed.frame, status: 'seed', reason: null, ends, confidence: 1, match: Number.NaN, from: seed.frame };
@@ -221,7 +238,7 @@ function followFrom(read: (i: number) => Gray, seed: FollowSeed, s: FollowSettin
         out[k - base] = lostFrame(k, 'not re-acquired', seed.frame);
         continue;
       }
-      const f = step(read(k), k, track, s, seed.frame, lost > 0);
+      const f = step(sized(yield k, k), k, track, s, seed.frame, lost > 0);
       out[k - base] = f;
       lost = f.status === 'lost' ? lost + 1 : 0;
     }

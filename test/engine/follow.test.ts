@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { follow, framesOf, reseed, type FollowRun, type FollowSeed } from '../../src/engine/follow';
+import { follow, followSteps, framesOf, reseed, type FollowRun, type FollowSeed } from '../../src/engine/follow';
 import type { Gray } from '../../src/engine/gray';
 import { Rng } from '../../src/engine/rng';
 import { expectInputError } from './expect-error';
@@ -94,6 +94,16 @@ describe('following the object from one hand mark', () => {
     expect(s.coverage).toBeGreaterThanOrEqual(0.9);
     expect(run.frames[20]!.status).toBe('seed');
     expect(run.frames.every((f) => f.confidence >= 0 && f.confidence <= 1)).toBe(true);
+  });
+
+  it('one frame at a time (followSteps, as a page whose frames arrive one by one drives it) gives the same run, asking each frame once', () => {
+    const c = clip('pass-tracked', 20, 60);
+    const whole = follow(framesOf(c.frames), handSeed(c, 20));
+    const { run, steps } = followSteps(c.frames.length, handSeed(c, 20));
+    const asked: number[] = [];
+    for (let r = steps.next(); !r.done; r = steps.next(c.frames[r.value]!)) asked.push(r.value);
+    expect(run).toEqual(whole);
+    expect([...asked].sort((a, b) => a - b)).toEqual(c.frames.map((_, k) => k));
   });
 
   // fixed-large (README "The truth matrix"): a fixed camera; the 3-D aircraft drifts across the

@@ -99,6 +99,24 @@ const mappingSchema = v.pipe(
   v.description('How CSS pixels were mapped to intrinsic pixels when the mark was made: kept for audit, not used by the figures. Every field is optional; other fields are dropped.'),
 );
 
+/** How a followed mark was found (issue 15): from which hand mark, in which run, with which settings. */
+const followedSchema = v.pipe(
+  obj({
+    from: text(1, 100, 'The id of the hand-placed mark the follow started from.'),
+    run: text(1, 100, 'The id of the follow run that placed it (every mark of one run shares it).'),
+    confidence: num(0, 1, "The follow's confidence in this frame, 0 to 1."),
+    match: num(-1, 10, "The weaker end's template match over what the picture's noise lets it reach."),
+    settings: obj({
+      searchPx: num(1, 100, 'Search radius per frame, pixels.'),
+      minMatch: num(0, 1, 'Least match for a frame to be followed.'),
+      reacquireMatch: num(0, 1, 'Least match to pick the object up again after a lost frame.'),
+      maxLostFrames: num(0, 1000, 'Frames tried after a loss before giving up.'),
+      maxSpanChange: num(0, 1, 'Largest change of the span per frame, as a share of its length.'),
+    }),
+  }),
+  v.description('Present when the mark was found by following the object from a hand-placed mark, not placed by hand.'),
+);
+
 /** Kinds grouped by how many points they take, for the JSON Schema's if/then. */
 const kindsByCount = [...new Set(Object.values(POINTS_PER_KIND))].map((n) => ({ n, kinds: MARK_KINDS.filter((k) => POINTS_PER_KIND[k] === n) }));
 const markFields = obj({
@@ -116,6 +134,7 @@ const markFields = obj({
       oneOf(['height', 'width'], "Which of the landmark's dimensions its span is (landmark spans): a height stands on the ground, its lower end the foot; a width is level. Absent: a height."),
     ),
     by: v.optional(text(1, 100, 'Who marked it, if the user gave a name (no accounts).')),
+    followed: v.optional(followedSchema),
     mapping: mappingSchema,
     createdAt: num(0, 1e14, 'When the mark was made, milliseconds since 1970-01-01 UTC.'),
 });

@@ -185,3 +185,23 @@ describe('page and media addresses', () => {
     expect(() => readCaseRecord(withVideo({ pageUrl: 'javascript:0' }))).toThrow(CaseFormatError);
   });
 });
+
+describe('a followed mark (issue 15)', () => {
+  const followed = { from: 'hand-1', run: 'run-1', confidence: 0.8, match: 0.97, settings: { searchPx: 12, minMatch: 0.8, reacquireMatch: 0.9, maxLostFrames: 10, maxSpanChange: 0.04 } };
+
+  it('keeps how it was followed, and a hand mark has none', () => {
+    const r = v2();
+    (r.marks as Obj[])[0]!.followed = clone(followed);
+    const read = readCaseRecord(r);
+    expect(read.marks[0]!.followed).toEqual(followed);
+    expect(read.marks[1]!.followed).toBeUndefined();
+  });
+
+  it('names the field of a bad value, with the allowed range', () => {
+    const r = v2();
+    (r.marks as Obj[])[0]!.followed = { ...clone(followed), confidence: 1.5 };
+    expect(failure(() => readCaseRecord(r)).message).toBe('case.marks[0].followed.confidence: expected 0 to 1, got 1.5');
+    (r.marks as Obj[])[0]!.followed = { ...clone(followed), settings: { ...followed.settings, searchPx: 0 } };
+    expect(failure(() => readCaseRecord(r)).message).toBe('case.marks[0].followed.settings.searchPx: expected 1 to 100, got 0');
+  });
+});

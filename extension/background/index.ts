@@ -29,6 +29,7 @@ browser.runtime.onMessage.addListener(
     'case/get': async ({ caseId }) => store.readCase(caseId),
     'cases/forPage': async ({ pageUrl }) => store.casesForPage(pageUrl),
     'mark/put': async ({ caseId, mark }) => store.putMark(caseId, mark),
+    'marks/put': async ({ caseId, marks }) => store.putMarks(caseId, marks),
     'mark/remove': async ({ caseId, markId }) => store.deleteMark(caseId, markId),
     'case/assume': async ({ caseId, assumptions }) => store.setAssumptions(caseId, assumptions),
     'overlay/inject': async ({ tabId }) => ({ injected: await injectOverlay(tabId) }),

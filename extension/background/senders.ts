@@ -141,6 +141,7 @@ const PAGE_RULES: Record<RequestType, Rule> = {
   'case/get': ownCase,
   'mark/put': ownCase,
   'mark/remove': ownCase,
+  'marks/put': extensionOnly,
   'case/assume': ownCase,
   'cases/forPage': ownPageUrl,
   'seek/take': ownPageUrl,

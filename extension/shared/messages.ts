@@ -16,6 +16,8 @@ export interface RequestMap {
   'case/get': { payload: { caseId: string }; reply: CaseRecord | null };
   /** Add a mark, or replace the one with the same id; saved before the reply. */
   'mark/put': { payload: { caseId: string; mark: Mark }; reply: CaseRecord };
+  /** Several marks in one write: a follow's accepted frames (extension pages only). */
+  'marks/put': { payload: { caseId: string; marks: Mark[] }; reply: CaseRecord };
   'mark/remove': { payload: { caseId: string; markId: string }; reply: CaseRecord };
   /** Set the assumptions behind a case's figures (the popup's editor; the overlay follows). */
   'case/assume': { payload: { caseId: string; assumptions: CaseAssumptions }; reply: CaseRecord };

@@ -2,7 +2,7 @@ import type { CaseListing, QuarantineEntry, StorageUsage } from '../listing';
 import type { CaseAssumptions, CaseRecord, Mark, VideoInfo } from '../schema';
 import { deleteCase, listCases, listDeleted, undeleteCase } from './case-log';
 import { makeCore, storageUsage } from './core';
-import { annotateCase, casePageOf, casesForPage, deleteMark, openCase, putMark, readCase, setAssumptions } from './edits';
+import { annotateCase, casePageOf, casesForPage, deleteMark, openCase, putMark, putMarks, readCase, setAssumptions } from './edits';
 import type { StorePorts } from './port';
 import { requestSeek, takeSeek } from './seek';
 import { exportCases, importCases } from './transfer';
@@ -20,6 +20,7 @@ export interface CaseStore {
   casePageOf(id: string): Promise<string | null>;
   openCase(id: string, video: VideoInfo, version: string): Promise<CaseRecord>;
   putMark(id: string, mark: Mark): Promise<CaseRecord>;
+  putMarks(id: string, marks: unknown): Promise<CaseRecord>;
   deleteMark(id: string, markId: string): Promise<CaseRecord>;
   setAssumptions(id: string, assumptions: CaseAssumptions): Promise<CaseRecord>;
   annotateCase(id: string, a: { notes?: unknown; status?: unknown; tags?: unknown }): Promise<CaseRecord>;
@@ -44,6 +45,7 @@ export function createCaseStore(ports: StorePorts): CaseStore {
     casePageOf: (id) => casePageOf(core, id),
     openCase: (id, video, version) => openCase(core, id, video, version),
     putMark: (id, mark) => putMark(core, id, mark),
+    putMarks: (id, marks) => putMarks(core, id, marks),
     deleteMark: (id, markId) => deleteMark(core, id, markId),
     setAssumptions: (id, assumptions) => setAssumptions(core, id, assumptions),
     annotateCase: (id, a) => annotateCase(core, id, a),

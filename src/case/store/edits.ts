@@ -64,6 +64,20 @@ export function putMark(core: StoreCore, id: string, mark: Mark): Promise<CaseRe
   });
 }
 
+/**
+ * Several marks in one write (a follow's accepted frames: hundreds, one write rather than one each).
+ * Every mark is checked before anything is written, and the first bad one is named by its place.
+ */
+export function putMarks(core: StoreCore, id: string, marks: unknown): Promise<CaseRecord> {
+  return core.queue.run(id, async () => {
+    const c = await readUnlocked(core, id);
+    if (!c) throw new Error(`no case ${id}: open it first`);
+    if (!Array.isArray(marks) || marks.length === 0) throw new Error('marks: expected a list of one or more marks');
+    const checked = marks.map((m, i) => validateMark(m, `marks[${i}]`, c.video.width, c.video.height));
+    return writeCase(core, checked.reduce((acc, m) => upsertMark(acc, m, core.now()), c));
+  });
+}
+
 export function deleteMark(core: StoreCore, id: string, markId: string): Promise<CaseRecord> {
   return core.queue.run(id, async () => {
     const c = await readUnlocked(core, id);

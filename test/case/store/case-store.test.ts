@@ -79,6 +79,20 @@ describe('edits', () => {
     await expect(store.annotateCase('', { notes: 'x' })).rejects.toThrow('caseId: expected the text of a case id (1 to 200 characters)');
   });
 
+  it("several marks land in one write (a follow's accepted frames); a bad one is named by its place and nothing is written", async () => {
+    const { store, local } = rig();
+    await store.openCase('f', video('f'), '0.1.0');
+    await store.putMark('f', mark('hand', 50, 1));
+    const sets = local.callsOf('set');
+    const added = await store.putMarks('f', [mark('f1', 52, 1.04), mark('f2', 54, 1.08), mark('f3', 56, 1.12)]);
+    expect(added.marks.map((m) => m.id)).toEqual(['hand', 'f1', 'f2', 'f3']);
+    expect(local.callsOf('set')).toBe(sets + 1);
+    const before = local.snapshot()['case:f'];
+    await expect(store.putMarks('f', [mark('f4', 58, 1.16), { ...mark('f5', 60, 1.2), edgeSigmaPx: 99 }])).rejects.toThrow('marks[1].edgeSigmaPx: expected 0 to 50, got 99');
+    await expect(store.putMarks('f', [])).rejects.toThrow('marks: expected a list of one or more marks');
+    expect(local.snapshot()['case:f']).toEqual(before);
+  });
+
   it('annotate refuses bad values naming the field and its range, before touching storage', async () => {
     const { store, local } = rig();
     await store.openCase('a', video('a'), '0.1.0');

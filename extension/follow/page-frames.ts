@@ -59,3 +59,24 @@ export async function readPageFrame(tabId: number, frameId: number, req: FrameRe
   if (!reply.ok) throw new FrameReadError(reply.reason);
   return decodeFrame(reply);
 }
+
+/** What the follow page needs to know of the measured video: its length and intrinsic size. */
+export interface VideoFacts {
+  duration: number;
+  width: number;
+  height: number;
+}
+
+/** Self-contained (it runs in the tab's isolated world): the measured video's facts, or null with no overlay there. */
+function factsThere(): VideoFacts | null {
+  const reg = (globalThis as unknown as Record<symbol, { sessions?: Map<HTMLVideoElement, unknown> } | undefined>)[Symbol.for('clip-caliper.overlay')];
+  const v = reg?.sessions ? [...reg.sessions.keys()][0] : undefined;
+  return v ? { duration: v.duration, width: v.videoWidth, height: v.videoHeight } : null;
+}
+
+export async function readVideoFacts(tabId: number, frameId: number): Promise<VideoFacts> {
+  const [r] = await browser.scripting.executeScript({ target: { tabId, frameIds: [frameId] }, func: factsThere });
+  const facts = r?.result as VideoFacts | null | undefined;
+  if (!facts) throw new FrameReadError('no-session');
+  return facts;
+}

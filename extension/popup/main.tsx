@@ -7,6 +7,7 @@ import { afterNextFrame } from '../shared/next-frame';
 import { subscribe } from '../shared/subscribe';
 import type { CaseView as CaseViewComponent } from './case-view';
 import { LogView, isLogRoute } from './log';
+import { followAddress, isFollowRoute } from '../follow/route';
 import { DEFAULT_SETTINGS, loadSettings, onSettingsChanged } from '../shared/settings';
 
 function Cautions() {
@@ -146,11 +147,26 @@ function useCaseView(): typeof CaseViewComponent | null {
   return view;
 }
 
+/** Opens the follow page in a tab of its own, from the case's latest hand-marked object span. */
+function FollowLink({ c, tabId }: { c: CaseRecord; tabId: number }) {
+  const seed = c.marks.filter((m) => m.kind === 'object-span' && !m.followed).at(-1);
+  if (!seed) return null;
+  const url = followAddress(location.href, tabId, 0, c.id, seed.id);
+  return (
+    <p>
+      <a href={url} data-testid="open-follow" onClick={(e) => { e.preventDefault(); void browser.tabs.create({ url }); }}>
+        {t('popupFollow')}
+      </a>
+    </p>
+  );
+}
+
 /** The measured cases of the tab's page; follows the background's notices, so marks and edits appear as they are saved. */
 function Cases() {
   const CaseView = useCaseView();
   const [cases, setCases] = useState<CaseRecord[] | null>(null);
   const [unreadable, setUnreadable] = useState(0);
+  const [tabId, setTabId] = useState<number | null>(null);
   const [settings, setSettings] = useState<Settings>(DEFAULT_SETTINGS);
   useEffect(() => {
     void loadSettings().then(setSettings);
@@ -167,6 +183,7 @@ function Cases() {
     targetTab().then((tab) => {
       if (!tab) return setCases([]);
       url = tab.url;
+      setTabId(tab.id);
       void load();
       // the page's cases as a whole (some may be unreadable): asked again on any stored change
       subscribe('cases/changed', () => void load(), stop.signal);
@@ -177,6 +194,7 @@ function Cases() {
   return (
     <section>
       {cases.length === 0 || !CaseView ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} system={settings.system} />)}
+      {tabId !== null && cases.map((c) => <FollowLink key={`f-${c.id}`} c={c} tabId={tabId} />)}
       {unreadable > 0 && <p class="error">{t('popupUnreadable', String(unreadable))}</p>}
     </section>
   );
@@ -212,4 +230,14 @@ function Popup() {
   );
 }
 
-render(isLogRoute() ? <LogView /> : <Popup />, document.getElementById('app')!);
+/** The follow page, loaded only when its address asks for it (it carries the follower's worker). */
+function FollowPage() {
+  const [view, setView] = useState<(() => preact.JSX.Element) | null>(null);
+  useEffect(() => {
+    void import('../follow/view').then((m) => setView(() => m.FollowView));
+  }, []);
+  const View = view;
+  return View ? <View /> : null;
+}
+
+render(isLogRoute() ? <LogView /> : isFollowRoute() ? <FollowPage /> : <Popup />, document.getElementById('app')!);

@@ -99,4 +99,41 @@ describe('following the object from one hand mark', () => {
     await view.close();
     await page.close();
   }, 120_000);
+
+  it('names a field out of range and follows nothing; Cancel stops a run and adds nothing; the popup offers the follow beside the case', async () => {
+    const page = await app.context.newPage();
+    await page.setViewportSize({ width: 1100, height: 800 });
+    await page.goto(server.url('/plain.html?follow-refuse'));
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await overlayReady(page);
+    const seed = truth.frames[1]!; // frame 22, 0.9 s
+    await seek(page, seed.t);
+    await markObject(page, seed);
+    await expect.poll(async () => (await caseOf(page.url())).marks.length).toBe(1);
+    const { id: caseId, marks } = await caseOf(page.url());
+    const tabId = await tabIdFor(app, page.url());
+
+    // the popup's own view of that tab links the follow page for this case and its hand mark
+    const popup = await app.context.newPage();
+    await popup.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?tab=${tabId}`);
+    const link = new URL((await popup.getByTestId('open-follow').getAttribute('href'))!);
+    expect(Object.fromEntries(link.searchParams)).toEqual({ view: 'follow', tab: String(tabId), frame: '0', case: caseId, mark: marks[0]!.id });
+    await popup.close();
+
+    const view = await app.context.newPage();
+    await view.goto(link.href);
+    await view.getByTestId('follow-from').fill('1.5');
+    await view.getByTestId('follow-start').click();
+    await expect.poll(() => view.getByTestId('follow-field-error').textContent().catch(() => null)).toBe("From: expected 0 s to the marked frame's 0.900 s, got 1.5");
+    await view.getByTestId('follow-from').fill('0');
+    await view.getByTestId('follow-to').fill('3');
+    await view.getByTestId('follow-start').click();
+    await view.getByTestId('follow-cancel').click();
+    await expect.poll(() => view.getByTestId('follow-stopped').textContent().catch(() => null)).toBe('Cancelled: nothing was added.');
+    expect(await view.getByTestId('follow-accept').count()).toBe(0);
+    expect((await caseOf(page.url())).marks).toHaveLength(1);
+    await view.close();
+    await page.close();
+  }, 120_000);
 });

@@ -73,3 +73,6 @@ export { CASE_PREFIX, DELETED_PREFIX, QUARANTINE_PREFIX } from './store-policy';
 export { createCaseStore } from './store/case-store';
 export type { KeyValueArea } from './store/port';
 export { readStoredCase } from './stored';
+// following the object through the clip (issue 15): the engine's follower, for the follow page's worker
+export { DEFAULT_FOLLOW, followSteps } from '../engine/follow';
+export type { FollowedFrame, FollowRun, FollowSeed, FollowSettings } from '../engine/follow';

@@ -36,6 +36,8 @@ export interface TurnFitOptions {
   maxYawSigma?: number;
   /** leave out pixels on lines at most three pixels wide (default true) */
   dropThinLines?: boolean;
+  /** finest pyramid level of the fine stage (default 0; 1 is about four times faster, half as sharp) */
+  finestLevel?: number;
 }
 
 export type TurnFailure = 'no-ground' | 'too-little-texture' | 'inconsistent' | 'not-determined';
@@ -80,6 +82,7 @@ export function fitTurn(a: LandscapeFrame, b: LandscapeFrame, cam: LandscapeCame
     ...(opts.exclude ? { exclude: opts.exclude } : {}),
     farPerBlock: opts.farPerBlock === true,
     dropThinLines: opts.dropThinLines !== false,
+    finestLevel: opts.finestLevel ?? 0,
   });
   const minBlocks = opts.minGroundBlocks ?? 6;
   if (dense.groundBlocks < minBlocks) {

@@ -6,6 +6,7 @@ import { logBench } from './log';
 import { largeCaseBench } from './large-case';
 import { popupLargeBench } from './popup-large';
 import { validateBench } from './validate';
+import { turnBench } from './turn';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -26,6 +27,7 @@ print(engineBench());
 caseBench();
 largeCaseBench();
 validateBench();
+turnBench();
 await importBench();
 
 await overlayBench();

@@ -1,4 +1,4 @@
-import type { LandscapeFrame, LumaLevel } from './landscape-frame';
+import { bilinearAt, cubicAt, type LandscapeFrame, type LumaLevel } from './landscape-frame';
 
 /*
  * Small patches of the landscape followed from one frame to the next: each patch is a window with
@@ -145,23 +145,8 @@ export interface TrackOptions {
   iterations?: number;
 }
 
-function sample(lv: LumaLevel, x: number, y: number): number {
-  const fx = x - 0.5;
-  const fy = y - 0.5;
-  const i = Math.floor(fx);
-  const j = Math.floor(fy);
-  const tx = fx - i;
-  const ty = fy - j;
-  const w = lv.width;
-  const m = j * w + i;
-  const d = lv.data;
-  const top = d[m]! + tx * (d[m + 1]! - d[m]!);
-  const bot = d[m + w]! + tx * (d[m + w + 1]! - d[m + w]!);
-  return top + ty * (bot - top);
-}
-
 function inside(lv: LumaLevel, x: number, y: number, r: number): boolean {
-  return x - r - 1 >= 0.5 && x + r + 1 < lv.width - 0.5 && y - r - 1 >= 0.5 && y + r + 1 < lv.height - 0.5;
+  return x - r - 2 >= 0.5 && x + r + 2 < lv.width - 1.5 && y - r - 2 >= 0.5 && y + r + 2 < lv.height - 1.5;
 }
 
 /**
@@ -203,9 +188,9 @@ export function trackPatches(a: LandscapeFrame, b: LandscapeFrame, p: Patches, g
         for (let u = -rad; u <= rad; u++, m++) {
           const x = cx + u;
           const y = cy + v;
-          T[m] = sample(la, x, y);
-          const gxv = 0.5 * (sample(la, x + 1, y) - sample(la, x - 1, y));
-          const gyv = 0.5 * (sample(la, x, y + 1) - sample(la, x, y - 1));
+          T[m] = bilinearAt(la, x, y);
+          const gxv = 0.5 * (bilinearAt(la, x + 1, y) - bilinearAt(la, x - 1, y));
+          const gyv = 0.5 * (bilinearAt(la, x, y + 1) - bilinearAt(la, x, y - 1));
           GX[m] = gxv;
           GY[m] = gyv;
           hxx += gxv * gxv;
@@ -229,7 +214,7 @@ export function trackPatches(a: LandscapeFrame, b: LandscapeFrame, p: Patches, g
         m = 0;
         for (let v = -rad; v <= rad; v++) {
           for (let u = -rad; u <= rad; u++, m++) {
-            const r = sample(lb, cx + u + ddx, cy + v + ddy) - T[m]!;
+            const r = cubicAt(lb, cx + u + ddx, cy + v + ddy) - T[m]!;
             bx += GX[m]! * r;
             by += GY[m]! * r;
             e2 += r * r;

@@ -57,3 +57,34 @@ export function invertSymmetric(a: Float64Array, n: number): Float64Array | null
   }
   return out;
 }
+
+/**
+ * The sandwich covariance H^-1 (sum over groups of score score^T) H^-1, n parameters, the scores of
+ * nb groups row after row: pixels within a group are not independent, groups are.
+ */
+export function sandwich(H: Float64Array, score: Float64Array, nb: number, n: number): Float64Array | null {
+  const inv = invertSymmetric(H, n);
+  if (!inv) return null;
+  const meat = new Float64Array(n * n);
+  for (let b = 0; b < nb; b++) {
+    const o = b * n;
+    for (let r = 0; r < n; r++) {
+      const sr = score[o + r]!;
+      if (sr === 0) continue;
+      for (let c = 0; c < n; c++) meat[r * n + c] = meat[r * n + c]! + sr * score[o + c]!;
+    }
+  }
+  const tmp = new Float64Array(n * n);
+  const out = new Float64Array(n * n);
+  for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += inv[r * n + k]! * meat[k * n + c]!;
+    tmp[r * n + c] = s;
+  }
+  for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += tmp[r * n + k]! * inv[k * n + c]!;
+    out[r * n + c] = s;
+  }
+  return out;
+}

@@ -1,6 +1,6 @@
 import { N_PARAMS, P_FAR, P_FORWARD, P_LEFT, P_PITCH, P_ROLL, P_YAW, cameraAxes, flowBasis, rayOf, type LandscapeCamera } from './ground-motion';
-import type { LandscapeFrame, LumaLevel } from './landscape-frame';
-import { invertSymmetric, solveSymmetric } from './small-solve';
+import { cubicAt, thinLineMask, type LandscapeFrame, type LumaLevel } from './landscape-frame';
+import { sandwich, solveSymmetric } from './small-solve';
 
 /*
  * The fine stage of the landscape turn: a direct fit of the motion model (ground-motion.ts) to the
@@ -108,7 +108,7 @@ function selectPixels(lv: LumaLevel, cam: LandscapeCamera, axesA: Float64Array, 
   const nBlocks = nbx * Math.ceil(h / block);
   let n = 0;
   const grad2 = new Float32Array(w * h);
-  const thin = dropThin ? thinLines(lv) : new Uint8Array(w * h);
+  const thin = dropThin ? thinLineMask(lv) : new Uint8Array(w * h);
   for (let j = 1; j < h - 1; j++) {
     for (let i = 1; i < w - 1; i++) {
       const m = j * w + i;
@@ -181,64 +181,12 @@ function selectPixels(lv: LumaLevel, cam: LandscapeCamera, axesA: Float64Array, 
   return px;
 }
 
-/** Contrast (luma) above which a ridge or trough one to three pixels wide counts as a thin line. */
-const THIN_CONTRAST = 4;
-
-/**
- * Pixels on or beside lines at most three pixels wide (lane paint far off, wires, field edges seen
- * edge-on). Their pixels hold a fraction of the line that the sampling grid, the rasteriser or the
- * encoder rounds differently in each frame: the brightness of a whole row of them changes between
- * frames with no motion at all, and along a long line that adds up to a pull on the turn. Edges of
- * wider things are kept.
- */
-function thinLines(lv: LumaLevel): Uint8Array {
-  const { width: w, height: h, data: d } = lv;
-  const out = new Uint8Array(w * h);
-  for (let j = 2; j < h - 2; j++) {
-    for (let i = 2; i < w - 2; i++) {
-      const m = j * w + i;
-      const v = d[m]!;
-      if (ridgeAcross(v, d[m - w]!, d[m + w]!, d[m - 2 * w]!, d[m + 2 * w]!)) {
-        out[m] = out[m - w] = out[m + w] = out[m - 2 * w] = out[m + 2 * w] = 1;
-      }
-      if (ridgeAcross(v, d[m - 1]!, d[m + 1]!, d[m - 2]!, d[m + 2]!)) {
-        out[m] = out[m - 1] = out[m + 1] = out[m - 2] = out[m + 2] = 1;
-      }
-    }
-  }
-  return out;
-}
-
-/** v stands above (or below) both sides two pixels off, and is not on a slope one pixel off. */
-function ridgeAcross(v: number, a1: number, b1: number, a2: number, b2: number): boolean {
-  const up = Math.min(v - a2, v - b2);
-  const down = Math.min(a2 - v, b2 - v);
-  if (up > THIN_CONTRAST) return v >= a1 || v >= b1;
-  if (down > THIN_CONTRAST) return v <= a1 || v <= b1;
-  return false;
-}
-
 interface LevelOutcome {
   cov: Float64Array;
   solved: boolean;
   groundBlocks: number;
   inlierGroundBlocks: number;
   misfit: number;
-}
-
-function bilinear(lv: LumaLevel, x: number, y: number): number {
-  const fx = x - 0.5;
-  const fy = y - 0.5;
-  const i = Math.floor(fx);
-  const j = Math.floor(fy);
-  const tx = fx - i;
-  const ty = fy - j;
-  const w = lv.width;
-  const m = j * w + i;
-  const d = lv.data;
-  const top = d[m]! + tx * (d[m + 1]! - d[m]!);
-  const bot = d[m + w]! + tx * (d[m + w + 1]! - d[m + w]!);
-  return top + ty * (bot - top);
 }
 
 function iterateLevel(px: LevelPixels, lb: LumaLevel, cam: LandscapeCamera, theta: Float64Array, iterations: number, frozen: readonly boolean[], perBlock: boolean): LevelOutcome {
@@ -253,8 +201,9 @@ function iterateLevel(px: LevelPixels, lb: LumaLevel, cam: LandscapeCamera, thet
   const axesB = new Float64Array(9);
   const delta = new Float64Array(N_PARAMS);
   const f = cam.focalPx;
-  const xmax = lb.width - 0.5;
-  const ymax = lb.height - 0.5;
+  // the cubic reads two pixels either side
+  const xmax = lb.width - 2.5;
+  const ymax = lb.height - 2.5;
   let solved = false;
   // every block above the horizon has its own depth: a skyline, a tower and a mast stand at
   // different distances, and one shared far depth would let the strongest of them set the turn
@@ -290,8 +239,8 @@ function iterateLevel(px: LevelPixels, lb: LumaLevel, cam: LandscapeCamera, thet
       if (!(Z > 1e-9)) continue;
       const xb = cam.cx + (f * (qx * axesB[0]! + qy * axesB[1]! + qz * axesB[2]!)) / Z;
       const yb = cam.cy - (f * (qx * axesB[3]! + qy * axesB[4]! + qz * axesB[5]!)) / Z;
-      if (!(xb >= 0.5 && xb < xmax && yb >= 0.5 && yb < ymax)) continue;
-      const r = bilinear(lb, xb, yb) - px.ia[p]!;
+      if (!(xb >= 1.5 && xb < xmax && yb >= 1.5 && yb < ymax)) continue;
+      const r = cubicAt(lb, xb, yb) - px.ia[p]!;
       const o = 5 * p;
       J[P_YAW] = px.jac[o]!;
       J[P_PITCH] = px.jac[o + 1]!;
@@ -353,7 +302,7 @@ function iterateLevel(px: LevelPixels, lb: LumaLevel, cam: LandscapeCamera, thet
         // the block's score after its depth has taken its share (gk is minus the depth's score)
         for (let c = 0; c < N_PARAMS; c++) score[b * N_PARAMS + c] = score[b * N_PARAMS + c]! + (hkt[b * N_PARAMS + c]! * gk[b]!) / hkk[b]!;
       }
-      const cov = sandwich(H, score, nb);
+      const cov = sandwich(H, score, nb, N_PARAMS);
       solved = cov !== null;
       return { cov: cov ?? new Float64Array(N_PARAMS * N_PARAMS).fill(Infinity), solved, ...blockCounts(px, weight, f), misfit: weightedMisfit(err, info, weight) };
     }
@@ -427,33 +376,4 @@ function blockCounts(px: LevelPixels, weight: Float64Array, f: number): { ground
     if (weight[b]! > INLIER_WEIGHT) inliers++;
   }
   return { groundBlocks, inlierGroundBlocks: inliers };
-}
-
-/** H^-1 (sum over blocks of score score^T) H^-1: pixels within a block are not independent. */
-function sandwich(H: Float64Array, score: Float64Array, nb: number): Float64Array | null {
-  const n = N_PARAMS;
-  const inv = invertSymmetric(H, n);
-  if (!inv) return null;
-  const meat = new Float64Array(n * n);
-  for (let b = 0; b < nb; b++) {
-    const o = b * n;
-    for (let r = 0; r < n; r++) {
-      const sr = score[o + r]!;
-      if (sr === 0) continue;
-      for (let c = 0; c < n; c++) meat[r * n + c] = meat[r * n + c]! + sr * score[o + c]!;
-    }
-  }
-  const tmp = new Float64Array(n * n);
-  const out = new Float64Array(n * n);
-  for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) {
-    let s = 0;
-    for (let k = 0; k < n; k++) s += inv[r * n + k]! * meat[k * n + c]!;
-    tmp[r * n + c] = s;
-  }
-  for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) {
-    let s = 0;
-    for (let k = 0; k < n; k++) s += tmp[r * n + k]! * inv[k * n + c]!;
-    out[r * n + c] = s;
-  }
-  return out;
 }

@@ -164,15 +164,11 @@ function choosePatches(a: LandscapeFrame, cam: LandscapeCamera, axesA: Float64Ar
   return { p, ground: Uint8Array.from(ground) };
 }
 
-/** Where the model puts each patch centre in frame B. */
+/** Where the model puts each patch centre in frame B; a patch the model puts behind B stays put. */
 function predict(cam: LandscapeCamera, axesA: Float64Array, theta: Float64Array, p: Patches, gx: Float64Array, gy: Float64Array): void {
-  const axesB = cameraAxes(theta[P_YAW]!, cam.pitchRad + theta[P_PITCH]!, cam.rollRad + theta[P_ROLL]!, new Float64Array(9));
-  const out = new Float64Array(3);
+  predictInto(cam, axesA, theta, p, gx, gy);
   for (let k = 0; k < p.n; k++) {
-    if (warpPixel(cam, axesA, axesB, theta, p.x[k]!, p.y[k]!, out)) {
-      gx[k] = out[0]!;
-      gy[k] = out[1]!;
-    } else {
+    if (Number.isNaN(gx[k]!)) {
       gx[k] = p.x[k]!;
       gy[k] = p.y[k]!;
     }

@@ -2,12 +2,15 @@ import { InputError } from './errors';
 import {
   N_PARAMS,
   P_FAR,
+  P_FORWARD,
+  P_LEFT,
   P_PITCH,
   P_ROLL,
   P_YAW,
   GROUND_MIN_DEPRESSION,
   cameraAxes,
   checkLandscapeCamera,
+  flowBasis,
   rayOf,
   warpPixel,
   type LandscapeCamera,
@@ -113,6 +116,7 @@ export function startTurn(a: LandscapeFrame, b: LandscapeFrame, cam: LandscapeCa
       const guided = pass > 0 || opts.init !== undefined;
       predict(lc, axesA, theta, set.p, gx, gy);
       const tracks = trackPatches(a, b, set.p, gx, gy, guided ? { topLevel: 1 } : {});
+      voteTravel(lc, axesA, set, tracks, theta);
       fit = robustFit(lc, axesA, set, tracks, theta, frozenFar);
     }
   }
@@ -173,6 +177,71 @@ function predict(cam: LandscapeCamera, axesA: Float64Array, theta: Float64Array,
       gy[k] = p.y[k]!;
     }
   }
+}
+
+/** Travel votes within this share of the vote's length (or 0.02 camera heights) agree. */
+const VOTE_RADIUS = 0.1;
+const MIN_VOTES = 6;
+
+/**
+ * The travel by vote: every followed ground patch, its turn taken out as the current motion has it,
+ * says on its own which travel moved it (two equations, two unknowns: its motion per unit of travel
+ * forward and left is known from its depth). The travel most patches agree on wins, before the fit
+ * weighs them: a car, whose corners agree among themselves, is then a minority rather than a start.
+ */
+function voteTravel(cam: LandscapeCamera, axesA: Float64Array, set: PatchSet, tr: Tracks, theta: Float64Array): void {
+  const n = set.p.n;
+  const du = new Float64Array(N_PARAMS);
+  const dv = new Float64Array(N_PARAMS);
+  const scratch = new Float64Array(3);
+  const rot = Float64Array.from(theta);
+  rot[P_FORWARD] = 0;
+  rot[P_LEFT] = 0;
+  const gx = new Float64Array(n);
+  const gy = new Float64Array(n);
+  predictInto(cam, axesA, rot, set.p, gx, gy);
+  const vf: number[] = [];
+  const vl: number[] = [];
+  for (let k = 0; k < n; k++) {
+    if (set.ground[k] !== 1 || !Number.isFinite(tr.xb[k]!) || !Number.isFinite(gx[k]!)) continue;
+    flowBasis(cam, axesA, set.p.x[k]!, set.p.y[k]!, 0, 0, 0, du, dv, scratch);
+    const a = du[P_FORWARD]!;
+    const b = du[P_LEFT]!;
+    const c = dv[P_FORWARD]!;
+    const d = dv[P_LEFT]!;
+    const det = a * d - b * c;
+    // a patch whose two travel directions move it alike cannot tell them apart
+    if (!(Math.abs(det) > 0.05 * (a * a + b * b + c * c + d * d))) continue;
+    const mu = tr.xb[k]! - gx[k]!;
+    const mv = tr.yb[k]! - gy[k]!;
+    vf.push((d * mu - b * mv) / det);
+    vl.push((a * mv - c * mu) / det);
+  }
+  if (vf.length < MIN_VOTES) return;
+  let best = -1;
+  let bestCount = 0;
+  for (let i = 0; i < vf.length; i++) {
+    const r = Math.max(0.02, VOTE_RADIUS * Math.hypot(vf[i]!, vl[i]!));
+    let count = 0;
+    for (let j = 0; j < vf.length; j++) if (Math.hypot(vf[j]! - vf[i]!, vl[j]! - vl[i]!) <= r) count++;
+    if (count > bestCount) {
+      bestCount = count;
+      best = i;
+    }
+  }
+  if (bestCount < MIN_VOTES) return;
+  const r = Math.max(0.02, VOTE_RADIUS * Math.hypot(vf[best]!, vl[best]!));
+  let sf = 0;
+  let sl = 0;
+  let m = 0;
+  for (let j = 0; j < vf.length; j++) {
+    if (Math.hypot(vf[j]! - vf[best]!, vl[j]! - vl[best]!) > r) continue;
+    sf += vf[j]!;
+    sl += vl[j]!;
+    m++;
+  }
+  theta[P_FORWARD] = sf / m;
+  theta[P_LEFT] = sl / m;
 }
 
 interface FitOutcome {

@@ -75,14 +75,17 @@ describe('landscape turn', () => {
     }
   });
 
-  it('a car moving on its own over the road does not bend the turn (drift-fixed)', async () => {
+  it('a car moving on its own over the road bends neither the turn nor the travel (drift-fixed)', async () => {
     const lib = await fixtureLib();
     // invented: a two-tone box 70 x 26 px on the far carriageway, 9 px a frame against the landscape
     const car: Car = { x0: 420, vx: -9, top: 250, width: 70, height: 26 };
     for (const i of [28, 44]) {
       const fit = await fitPair(lib, 'drift-fixed', i, car);
       expect(fit.ok).toBe(true);
-      if (fit.ok) expect(Math.abs(fit.yawRad)).toBeLessThan(FIXED_MAX_YAW);
+      if (!fit.ok) continue;
+      expect(Math.abs(fit.yawRad)).toBeLessThan(FIXED_MAX_YAW);
+      const tt = travelTruth(lib, 'drift-fixed', i);
+      expect(Math.abs(Math.hypot(fit.travelForward, fit.travelLeft) / Math.hypot(tt.forward, tt.left) - 1)).toBeLessThan(TRAVEL_MAX_REL);
     }
   });
 

@@ -315,10 +315,16 @@ function iterateLevel(px: LevelPixels, lb: LumaLevel, cam: LandscapeCamera, thet
       for (let c = 0; c < N_PARAMS; c++) s1 -= hkt[b * N_PARAMS + c]! * delta[c]!;
       kb[b] = Math.min(0.1, Math.max(0, kb[b]! + s1 / hkk[b]!));
     }
+    // settled (the step moves no pixel by a thousandth): the next round is the last, for the figures
+    const rotPx = (Math.abs(delta[P_YAW]!) + Math.abs(delta[P_PITCH]!) + Math.abs(delta[P_ROLL]!)) * f;
+    const travPx = (Math.abs(delta[P_FORWARD]!) + Math.abs(delta[P_LEFT]!)) * f * 0.05;
+    if (rotPx + travPx < SETTLED_PX && it < iterations - 1) it = iterations - 1;
   }
   return { cov: new Float64Array(N_PARAMS * N_PARAMS).fill(Infinity), solved: false, ...blockCounts(px, weight, f), misfit: NaN };
 }
 
+/** px: a step that moves nothing by more than this ends the level's rounds */
+const SETTLED_PX = 1e-3;
 /** relative pull of a far block's depth toward infinitely far */
 const FAR_PULL = 1e-3;
 const HIST_BINS = 512;

@@ -7,6 +7,7 @@ import { largeCaseBench } from './large-case';
 import { popupLargeBench } from './popup-large';
 import { validateBench } from './validate';
 import { followBench } from './follow';
+import { turnBench } from './turn';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -27,6 +28,7 @@ print(engineBench());
 caseBench();
 largeCaseBench();
 validateBench();
+turnBench();
 await importBench();
 followBench();
 

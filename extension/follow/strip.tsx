@@ -6,7 +6,9 @@ import { message as t } from '../shared/browser';
  * follower's confidence; a lost frame is a red mark at the foot, never a bar. The seed is outlined.
  */
 export function FollowStrip({ frames, count }: { frames: readonly (FollowedFrame | undefined)[]; count: number }) {
-  const spans = frames.map((f) => (f?.ends ? Math.hypot(f.ends[1].x - f.ends[0].x, f.ends[1].y - f.ends[0].y) : 0));
+  // Array.from, not map: a run in progress has holes, which map keeps and a spread turns into
+  // undefined (Math.max then NaN: every bar's height NaN, an error logged per bar per render)
+  const spans = Array.from(frames, (f) => (f?.ends ? Math.hypot(f.ends[1].x - f.ends[0].x, f.ends[1].y - f.ends[0].y) : 0));
   const top = Math.max(1, ...spans);
   const w = Math.max(count, 1);
   const followed = frames.filter((f) => f && f.status !== 'lost').length;

@@ -69,6 +69,11 @@ describe('following the object from one hand mark', () => {
 
     const tabId = await tabIdFor(app, page.url());
     const view = await app.context.newPage();
+    // the page must draw the run without errors: a strip drawn from a run in progress once logged an
+    // error per bar per frame (NaN heights), which held the page's thread for 0.3 s at a time
+    const viewErrors: string[] = [];
+    view.on('console', (m) => m.type() === 'error' && viewErrors.push(m.text()));
+    view.on('pageerror', (e) => viewErrors.push(e.message));
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?view=follow&tab=${tabId}&frame=0&case=${caseId}&mark=${hand.id}`);
     await view.getByTestId('follow-from').fill('0.5');
     await view.getByTestId('follow-to').fill('2.5');
@@ -79,6 +84,7 @@ describe('following the object from one hand mark', () => {
     // 1.04 s before the seed holds 26 steps of 0.04 s, 0.96 s after it 24: 51 frames, the seed one of them
     expect(Number(counts[1]) + Number(counts[2])).toBe(50);
     expect(Number(counts[2])).toBe(0);
+    expect(viewErrors).toEqual([]);
     if (process.env.FOLLOW_SHOT) await view.screenshot({ path: process.env.FOLLOW_SHOT, fullPage: true });
     await view.getByTestId('follow-accept').click();
     await expect.poll(() => view.getByTestId('follow-added').textContent().catch(() => null)).toMatch(/^Added 50 marks/);

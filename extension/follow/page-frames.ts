@@ -50,11 +50,17 @@ function serverThere(): boolean {
 /** The frame at req.t of the video measured in the tab (and frame) given. */
 export async function readPageFrame(tabId: number, frameId: number, req: FrameRequest): Promise<PageFrame> {
   const target = { tabId, frameIds: [frameId] };
-  // the server comes with the first request (a page that navigated since loses it with the overlay)
-  const [there] = await browser.scripting.executeScript({ target, func: serverThere });
-  if (!there?.result) await browser.scripting.executeScript({ target, files: [frameServerFile] });
-  const results = await browser.scripting.executeScript({ target, func: askOverlay, args: [req] });
-  const reply = results[0]?.result as FrameReply | undefined;
+  const ask = async () => (await browser.scripting.executeScript({ target, func: askOverlay, args: [req] }))[0]?.result as FrameReply | undefined;
+  // one round trip a frame: the server comes with the first request that finds none (a page that
+  // navigated since lost it with the overlay), and only then is the request asked again
+  let reply = await ask();
+  if (reply && !reply.ok && reply.reason === 'no-session') {
+    const [there] = await browser.scripting.executeScript({ target, func: serverThere });
+    if (!there?.result) {
+      await browser.scripting.executeScript({ target, files: [frameServerFile] });
+      reply = await ask();
+    }
+  }
   if (!reply) throw new FrameReadError('no-answer');
   if (!reply.ok) throw new FrameReadError(reply.reason);
   return decodeFrame(reply);

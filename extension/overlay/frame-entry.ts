@@ -11,6 +11,6 @@ const reg = (globalThis as unknown as Record<symbol, Registry | undefined>)[Symb
 if (reg) {
   reg.frame ??= (req) => {
     const open = [...reg.sessions.values()][0];
-    return open ? serveFrame(open.video, () => open.readPixels(), req) : Promise.resolve({ ok: false, reason: 'no-session' });
+    return open ? serveFrame(open.video, (region) => open.readPixels(region), req) : Promise.resolve({ ok: false, reason: 'no-session' });
   };
 }

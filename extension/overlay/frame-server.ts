@@ -79,10 +79,36 @@ export function packLuma(img: Gray, req: FrameRequest): { x: number; y: number; 
 }
 
 /** One frame for an extension page: seek, read (the video's pixels, else the tab's picture), pack. */
-export async function serveFrame(video: HTMLVideoElement, read: () => Promise<{ img: Gray; direct: boolean } | null>, req: unknown): Promise<FrameReply> {
+export async function serveFrame(
+  video: HTMLVideoElement,
+  read: (region: Region) => Promise<{ img: Gray; x: number; y: number; direct: boolean } | null>,
+  req: unknown,
+): Promise<FrameReply> {
   if (!checkRequest(req)) return { ok: false, reason: 'bad-request' };
   if (!(await seekTo(video, req.t))) return { ok: false, reason: 'seek-timeout' };
-  const got = await read();
+  const region = pixelRegion(video.videoWidth, video.videoHeight, req);
+  const got = await read(region);
   if (!got) return { ok: false, reason: 'no-pixels' };
-  return { ok: true, t: video.currentTime, step: req.step, source: got.direct ? 'video' : 'capture', ...packLuma(got.img, req) };
+  // packed from the pixels read, which start at got.x, got.y: the same blocks as from the whole picture
+  const packed = packLuma(got.img, { ...req, x: req.x - got.x, y: req.y - got.y });
+  return { ok: true, t: video.currentTime, step: req.step, source: got.direct ? 'video' : 'capture', ...packed, x: packed.x + got.x, y: packed.y + got.y };
+}
+
+export interface Region {
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+}
+
+/** The whole pixels packLuma reads for req from a width x height picture (clamped as it clamps). */
+export function pixelRegion(width: number, height: number, req: FrameRequest): Region {
+  const x = Math.max(0, Math.min(width - 1, Math.floor(req.x)));
+  const y = Math.max(0, Math.min(height - 1, Math.floor(req.y)));
+  return {
+    x,
+    y,
+    width: Math.max(1, Math.min(width, Math.floor(req.x + req.width)) - x),
+    height: Math.max(1, Math.min(height, Math.floor(req.y + req.height)) - y),
+  };
 }

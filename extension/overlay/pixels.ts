@@ -46,13 +46,28 @@ export class FramePixels {
     return c.getContext('2d', { willReadFrequently: true });
   }
 
-  private readDirect(): Gray | null {
+  /**
+   * The shown frame's pixels over a region only (intrinsic px, whole pixels, inside the picture),
+   * for the frame server: a follow asks for a window round the object on every frame, and reading
+   * the whole of a large picture for it cost more than the rest of the frame's work. Where the
+   * video cannot be read directly, the whole picture (a capture) with its origin at 0, 0.
+   */
+  async region(x: number, y: number, width: number, height: number): Promise<{ img: Gray; x: number; y: number } | null> {
     const v = this.video;
-    const ctx = this.context(v.videoWidth, v.videoHeight);
+    if (v.videoWidth === 0 || v.mediaKeys) return null;
+    const img = this.direct ? this.readDirect(x, y, width, height) : null;
+    if (img) return { img, x, y };
+    const whole = await this.get();
+    return whole ? { img: whole, x: 0, y: 0 } : null;
+  }
+
+  private readDirect(x = 0, y = 0, width = this.video.videoWidth, height = this.video.videoHeight): Gray | null {
+    const v = this.video;
+    const ctx = this.context(width, height);
     if (!ctx) return null;
     try {
-      ctx.drawImage(v, 0, 0);
-      const d = ctx.getImageData(0, 0, v.videoWidth, v.videoHeight);
+      ctx.drawImage(v, x, y, width, height, 0, 0, width, height);
+      const d = ctx.getImageData(0, 0, width, height);
       return { data: d.data, width: d.width, height: d.height, channels: 4 };
     } catch {
       this.direct = false;

@@ -186,9 +186,13 @@ export class MeasureSession {
   }
 
   /** The shown frame's pixels and whether they are the video's own (else the tab's picture): the frame server's source. */
-  async readPixels(): Promise<{ img: Gray; direct: boolean } | null> {
+  async readPixels(region?: { x: number; y: number; width: number; height: number }): Promise<{ img: Gray; x: number; y: number; direct: boolean } | null> {
+    if (region) {
+      const r = await this.pixels.region(region.x, region.y, region.width, region.height);
+      return r ? { ...r, direct: this.pixels.direct } : null;
+    }
     const img = await this.pixels.get();
-    return img ? { img, direct: this.pixels.direct } : null;
+    return img ? { img, x: 0, y: 0, direct: this.pixels.direct } : null;
   }
 
   private describeVideo(): void {

@@ -8,6 +8,7 @@ import { popupLargeBench } from './popup-large';
 import { validateBench } from './validate';
 import { followBench } from './follow';
 import { turnBench } from './turn';
+import { followPageBench } from './follow-page';
 
 // `npm run bench`: prints figures, asserts nothing. Targets are stated beside the figures.
 const TARGET_FRAME_SHARE = 0.25;
@@ -35,3 +36,4 @@ followBench();
 await overlayBench();
 await logBench();
 await popupLargeBench();
+await followPageBench();

@@ -106,7 +106,8 @@ export function renderPicture(scene: Scene, index: number): Picture {
   const o = lib.frameCodeOrigin(scene.video);
   const c = lib.FRAME_CODE.cellPx;
   video.block(o.x - 2, o.y - 2, lib.FRAME_CODE.bits * c + 4, c + 4, [0, 0, 0]);
-  lib.frameCodeBits(index).forEach((b, k) => video.block(o.x + k * c, o.y, c, c, b ? [255, 255, 255] : [0, 0, 0]));
+  // the code has 8 bits: a longer clip (the follow page's bench) wraps it, as nothing reads it there
+  lib.frameCodeBits(index % 256).forEach((b, k) => video.block(o.x + k * c, o.y, c, c, b ? [255, 255, 255] : [0, 0, 0]));
   return video;
 }
 

@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'preact/hooks';
-import { engineAssumptions, defaultAssumptions, parseBand, LANE_CYCLES, formatQuantity, summaryText, toCaseFile, type CaseAnalysis, type CaseAssumptions, type CaseRecord, type Quantity, type UnitSystem, type SummaryFormat } from '../../src/case';
+import { engineAssumptions, defaultAssumptions, parseBand, LANE_CYCLES, formatQuantity, summaryText, toCaseFile, caseFileStem, type CaseAnalysis, type CaseAssumptions, type CaseRecord, type Quantity, type UnitSystem, type SummaryFormat } from '../../src/case';
 import { useAnalysis, type AnalysisState } from './use-analysis';
 import { Results } from './results';
 import { extensionVersion, message, send } from '../shared/browser';
@@ -204,9 +204,7 @@ function dimensionMarked(c: CaseRecord): 'wingspan' | 'length' {
 /** The case file a colleague recomputes with `npm run solve -- FILE`; named by case and date. */
 function exportCase(c: CaseRecord): void {
   const json = JSON.stringify(toCaseFile(c, extensionVersion()), null, 2);
-  const day = new Date(c.updatedAt).toISOString().slice(0, 10);
-  const title = (c.video.pageTitle || 'case').replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40) || 'case';
-  saveText(json, `clip-caliper-${title}-${day}-${c.id.slice(0, 8)}.json`);
+  saveText(json, `${caseFileStem(c)}.json`);
 }
 
 /** Copy the summary anyone can recompute: plain text or Markdown, with a preview of what is copied. */

@@ -215,7 +215,7 @@ export function layoutPicture(p: PictureInput): PictureLayout {
     const o = objectCentre(ts.objectMark);
     const len = Math.max(20, W / 10);
     const y = clamp(o.y - 3 * dotR - fontPx, fontPx, bandTop - fontPx);
-    const x1 = clamp(o.x - (arrow * len) / 2, fontPx, W - fontPx - len);
+    const x1 = clamp(o.x - len / 2, fontPx, W - fontPx - len); // the arrow's left end, centred over the object
     const x0 = arrow > 0 ? x1 : x1 + len;
     shapes.push({ kind: 'arrow', x1: x0, y1: y, x2: x0 + arrow * len, y2: y, colour: ARROW_COLOUR, width: 3, head: Math.max(8, fontPx) });
   }

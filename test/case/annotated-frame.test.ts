@@ -118,6 +118,8 @@ describe('the annotated frame: layout', () => {
     expect(p.arrow).toBe(-1);
     const a = p.shapes.find((s) => s.kind === 'arrow')!;
     expect(a.kind === 'arrow' && a.x2 < a.x1).toBe(true);
+    // centred over the object's middle (truth: column 320)
+    expect(a.kind === 'arrow' && Math.abs((a.x1 + a.x2) / 2 - (f.object.x1 + f.object.x2) / 2)).toBeLessThan(1e-9);
     // aimed to the right instead, the same figures put the arrow the other way
     const right = { ...left, assumptions: { ...left.assumptions, fixedCamera: { ...left.assumptions.fixedCamera, axisHeading: { lo: 60 * (Math.PI / 180), hi: 100 * (Math.PI / 180) } } } };
     expect(layoutPicture({ c, r: right, t: f.t, width: W, height: H, source: 'video', words, format }).arrow).toBe(1);

@@ -1,7 +1,7 @@
 import frameServerFile from '../overlay/frame-entry.ts?script&iife';
 import type { Gray } from '../../src/case';
 import { browser } from '../shared/browser';
-import type { FrameReply, FrameRequest } from '../shared/frames';
+import type { FrameReply, FrameRequest, PictureReply } from '../shared/frames';
 
 /*
  * Frames of the measured video, read from an extension page (the work of following the object runs
@@ -24,7 +24,7 @@ export interface PageFrame {
 }
 
 export class FrameReadError extends Error {
-  constructor(readonly reason: Exclude<FrameReply, { ok: true }>['reason'] | 'no-answer') {
+  constructor(readonly reason: Exclude<FrameReply, { ok: true }>['reason'] | Exclude<PictureReply, { ok: true }>['reason'] | 'no-answer') {
     super(`frame not read: ${reason}`);
   }
 }
@@ -47,19 +47,21 @@ function serverThere(): boolean {
   return !!(globalThis as unknown as Record<symbol, { frame?: unknown } | undefined>)[Symbol.for('clip-caliper.overlay')]?.frame;
 }
 
+/** The frame server hung on the overlay there: it comes with the first request (a page that navigated since loses it with the overlay). */
+async function withServer(target: { tabId: number; frameIds: number[] }): Promise<void> {
+  const [there] = await browser.scripting.executeScript({ target, func: serverThere });
+  if (!there?.result) await browser.scripting.executeScript({ target, files: [frameServerFile] });
+}
+
 /** The frame at req.t of the video measured in the tab (and frame) given. */
 export async function readPageFrame(tabId: number, frameId: number, req: FrameRequest): Promise<PageFrame> {
   const target = { tabId, frameIds: [frameId] };
   const ask = async () => (await browser.scripting.executeScript({ target, func: askOverlay, args: [req] }))[0]?.result as FrameReply | undefined;
-  // one round trip a frame: the server comes with the first request that finds none (a page that
-  // navigated since lost it with the overlay), and only then is the request asked again
+  // one round trip a frame: the server is looked for only when the overlay answers that it has none
   let reply = await ask();
   if (reply && !reply.ok && reply.reason === 'no-session') {
-    const [there] = await browser.scripting.executeScript({ target, func: serverThere });
-    if (!there?.result) {
-      await browser.scripting.executeScript({ target, files: [frameServerFile] });
-      reply = await ask();
-    }
+    await withServer(target);
+    reply = await ask();
   }
   if (!reply) throw new FrameReadError('no-answer');
   if (!reply.ok) throw new FrameReadError(reply.reason);
@@ -85,4 +87,26 @@ export async function readVideoFacts(tabId: number, frameId: number): Promise<Vi
   const facts = r?.result as VideoFacts | null | undefined;
   if (!facts) throw new FrameReadError('no-session');
   return facts;
+}
+
+/** Self-contained (it runs in the tab's isolated world): the overlay's paused frame, whole. */
+function askPicture(): Promise<PictureReply> | PictureReply {
+  const reg = (globalThis as unknown as Record<symbol, { picture?: () => Promise<PictureReply> } | undefined>)[Symbol.for('clip-caliper.overlay')];
+  return reg?.picture ? reg.picture() : { ok: false, reason: 'no-session' };
+}
+
+/**
+ * The paused frame of the video measured in the tab, whole and in colour (the annotated frame), by
+ * the same path as the follower's frames: the answer comes straight back to the extension.
+ */
+export async function readPagePicture(tabId: number, frameId: number): Promise<Extract<PictureReply, { ok: true }>> {
+  const target = { tabId, frameIds: [frameId] };
+  await withServer(target);
+  const [r] = await browser.scripting.executeScript({ target, func: askPicture });
+  const reply = r?.result as PictureReply | undefined;
+  if (!reply) throw new FrameReadError('no-answer');
+  if (!reply.ok) throw new FrameReadError(reply.reason);
+  // what came back must be a PNG of the size it says; anything else is not drawn on
+  if (!reply.png.startsWith('data:image/png;base64,') || !(reply.width > 0 && reply.height > 0)) throw new FrameReadError('no-pixels');
+  return reply;
 }

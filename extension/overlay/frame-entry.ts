@@ -1,5 +1,5 @@
 import type { Registry } from './index';
-import { serveFrame } from './frame-server';
+import { serveFrame, servePicture } from './frame-server';
 
 /*
  * Injected beside the overlay only when an extension page first asks for frames (follow/page-frames.ts),
@@ -12,5 +12,9 @@ if (reg) {
   reg.frame ??= (req) => {
     const open = [...reg.sessions.values()][0];
     return open ? serveFrame(open.video, (region) => open.readPixels(region), req) : Promise.resolve({ ok: false, reason: 'no-session' });
+  };
+  reg.picture ??= () => {
+    const open = [...reg.sessions.values()][0];
+    return open ? servePicture(open.video, () => open.readPixels()) : Promise.resolve({ ok: false, reason: 'no-session' });
   };
 }

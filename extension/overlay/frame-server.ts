@@ -1,5 +1,5 @@
 import type { Gray } from '../../src/case';
-import { MAX_STEP, type FrameReply, type FrameRequest } from '../shared/frames';
+import { MAX_STEP, type FrameReply, type FrameRequest, type PictureReply } from '../shared/frames';
 
 /*
  * Frames for an extension page that measures every frame (issue 15: following the object, the
@@ -111,4 +111,22 @@ export function pixelRegion(width: number, height: number, req: FrameRequest): R
     width: Math.max(1, Math.min(width, Math.floor(req.x + req.width)) - x),
     height: Math.max(1, Math.min(height, Math.floor(req.y + req.height)) - y),
   };
+}
+
+/**
+ * The frame shown, whole and in colour, as a PNG: the video paused where it is (no seek: the user
+ * chose this frame), its pixels read as for snapping (the video's own, else the tab's picture).
+ */
+export async function servePicture(video: HTMLVideoElement, read: () => Promise<{ img: Gray; direct: boolean } | null>): Promise<PictureReply> {
+  video.pause();
+  const got = await read();
+  if (!got || got.img.channels !== 4) return { ok: false, reason: 'no-pixels' };
+  const { img } = got;
+  const canvas = video.ownerDocument.createElement('canvas');
+  canvas.width = img.width;
+  canvas.height = img.height;
+  const ctx = canvas.getContext('2d');
+  if (!ctx) return { ok: false, reason: 'no-pixels' };
+  ctx.putImageData(new ImageData(new Uint8ClampedArray(img.data), img.width, img.height), 0, 0);
+  return { ok: true, t: video.currentTime, width: img.width, height: img.height, source: got.direct ? 'video' : 'capture', png: canvas.toDataURL('image/png') };
 }

@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'preact/hooks';
-import { engineAssumptions, defaultAssumptions, parseBand, LANE_CYCLES, formatQuantity, summaryText, toCaseFile, type CaseAnalysis, type CaseAssumptions, type CaseRecord, type Quantity, type UnitSystem, type SummaryFormat } from '../../src/case';
+import { engineAssumptions, defaultAssumptions, parseBand, LANE_CYCLES, formatQuantity, summaryText, toCaseFile, caseFileStem, type CaseAnalysis, type CaseAssumptions, type CaseRecord, type Quantity, type UnitSystem, type SummaryFormat } from '../../src/case';
 import { useAnalysis, type AnalysisState } from './use-analysis';
 import { Results } from './results';
 import { extensionVersion, message, send } from '../shared/browser';
@@ -204,14 +204,24 @@ function dimensionMarked(c: CaseRecord): 'wingspan' | 'length' {
 /** The case file a colleague recomputes with `npm run solve -- FILE`; named by case and date. */
 function exportCase(c: CaseRecord): void {
   const json = JSON.stringify(toCaseFile(c, extensionVersion()), null, 2);
-  const day = new Date(c.updatedAt).toISOString().slice(0, 10);
-  const title = (c.video.pageTitle || 'case').replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40) || 'case';
-  saveText(json, `clip-caliper-${title}-${day}-${c.id.slice(0, 8)}.json`);
+  saveText(json, `${caseFileStem(c)}.json`);
 }
 
 /** Copy the summary anyone can recompute: plain text or Markdown, with a preview of what is copied. */
-function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitSystem }) {
+function Share({ c, r, system, tabId }: { c: CaseRecord; r: CaseAnalysis; system: UnitSystem; tabId: number | null }) {
   const [status, setStatus] = useState('');
+  const [frameStatus, setFrameStatus] = useState('');
+  // the annotated frame's code (the layout, the canvas, the frame server's file) loads on the click
+  const saveFrame = () => {
+    setFrameStatus('');
+    if (tabId === null) return setFrameStatus(message('caseFrameFailed', message('caseFrameNoTab')));
+    import('./annotated-frame')
+      .then((m) => m.saveAnnotatedFrame(tabId, c, r, system))
+      .then(
+        ({ name, source }) => setFrameStatus(message('caseFrameSaved', [name, message(source === 'video' ? 'caseFrameSourceVideo' : 'caseFrameSourceCapture')])),
+        (e: Error) => setFrameStatus(message('caseFrameFailed', e.message)),
+      );
+  };
   // built only once opened: for a case at the mark limit the text alone took a second to build
   const [previewing, setPreviewing] = useState(false);
   const text = (format: SummaryFormat) => summaryText(c, r, { format, system, toolVersion: extensionVersion() });
@@ -231,9 +241,15 @@ function Share({ c, r, system }: { c: CaseRecord; r: CaseAnalysis; system: UnitS
       <button type="button" class="secondary" data-testid="export" onClick={() => exportCase(c)}>
         {message('caseExport')}
       </button>
+      <button type="button" class="secondary" data-testid="save-frame" onClick={saveFrame}>
+        {message('caseSaveFrame')}
+      </button>
       <span class="muted" role="status" data-testid="copy-status">
         {' '}
         {status}
+      </span>
+      <span class="muted" role="status" data-testid="frame-status">
+        {frameStatus}
       </span>
       <details onToggle={(e) => setPreviewing((e.currentTarget as HTMLDetailsElement).open)}>
         <summary>{message('casePreview')}</summary>
@@ -265,7 +281,7 @@ function Computing({ progress, error }: Pick<AnalysisState, 'progress' | 'error'
   );
 }
 
-export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
+export function CaseView({ c, system, tabId = null }: { c: CaseRecord; system: UnitSystem; tabId?: number | null }) {
   const a = c.assumptions ?? defaultAssumptions();
   // the figures come from a worker; what the assumptions section needs is cheap and drawn at once
   const { f, progress, error } = useAnalysis(c);
@@ -348,7 +364,7 @@ export function CaseView({ c, system }: { c: CaseRecord; system: UnitSystem }) {
       {r ? (
         <>
           <Results f={f!} system={system} />
-          <Share c={c} r={r} system={system} />
+          <Share c={c} r={r} system={system} tabId={tabId} />
         </>
       ) : (
         <Computing progress={progress} error={error} />

@@ -193,7 +193,7 @@ function Cases() {
   if (cases === null || (cases.length > 0 && !CaseView)) return null;
   return (
     <section>
-      {cases.length === 0 || !CaseView ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} system={settings.system} />)}
+      {cases.length === 0 || !CaseView ? <p class="muted">{t('popupNoCase')}</p> : cases.map((c) => <CaseView key={c.id} c={c} system={settings.system} tabId={tabId} />)}
       {tabId !== null && cases.map((c) => <FollowLink key={`f-${c.id}`} c={c} tabId={tabId} />)}
       {unreadable > 0 && <p class="error">{t('popupUnreadable', String(unreadable))}</p>}
     </section>

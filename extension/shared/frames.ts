@@ -23,3 +23,12 @@ export type FrameReply =
 
 /** The coarsest block side a page may ask for. */
 export const MAX_STEP = 16;
+
+/**
+ * The paused frame whole and in colour, for the annotated frame (issue 15 point 7): a PNG (lossless,
+ * so the marks are drawn over the very pixels measured) as a data URL, with the time it shows and
+ * where its pixels came from.
+ */
+export type PictureReply =
+  | { ok: true; t: number; width: number; height: number; source: 'video' | 'capture'; png: string }
+  | { ok: false; reason: 'no-session' | 'no-pixels' };

@@ -29,6 +29,9 @@ export { planView, rangePlot } from './plots';
 export type { PlanView, RangePlot } from './plots';
 export { summaryText } from './summary';
 export type { SummaryFormat } from './summary';
+// the annotated frame (issue 15 point 7): what is drawn where; the popup rasterises it
+export { annotatedFrameName, caseFileStem, layoutPicture } from './annotated-frame';
+export type { PictureLayout, PictureWords, Shape } from './annotated-frame';
 
 // case files
 export { MAX_CASE_FILE_BYTES, parseCaseFile, toCaseFile } from './casefile';

@@ -1,7 +1,7 @@
 import frameServerFile from '../overlay/frame-entry.ts?script&iife';
 import type { Gray } from '../../src/case';
 import { browser } from '../shared/browser';
-import type { FrameReply, FrameRequest } from '../shared/frames';
+import type { FrameReply, FrameRequest, RateReply } from '../shared/frames';
 
 /*
  * Frames of the measured video, read from an extension page (the work of following the object runs
@@ -47,12 +47,30 @@ function serverThere(): boolean {
   return !!(globalThis as unknown as Record<symbol, { frame?: unknown } | undefined>)[Symbol.for('clip-caliper.overlay')]?.frame;
 }
 
-/** The frame at req.t of the video measured in the tab (and frame) given. */
-export async function readPageFrame(tabId: number, frameId: number, req: FrameRequest): Promise<PageFrame> {
+/** The tab's frame, with the frame server there: it comes with the first request (a page that navigated since loses it with the overlay). */
+async function withServer(tabId: number, frameId: number): Promise<{ tabId: number; frameIds: number[] }> {
   const target = { tabId, frameIds: [frameId] };
-  // the server comes with the first request (a page that navigated since loses it with the overlay)
   const [there] = await browser.scripting.executeScript({ target, func: serverThere });
   if (!there?.result) await browser.scripting.executeScript({ target, files: [frameServerFile] });
+  return target;
+}
+
+/** Self-contained (it runs in the tab's isolated world): asks the overlay there for the clip's frame rate. */
+function askRate(): Promise<RateReply> | RateReply {
+  const reg = (globalThis as unknown as Record<symbol, { rate?: () => Promise<RateReply> } | undefined>)[Symbol.for('clip-caliper.overlay')];
+  return reg?.rate ? reg.rate() : { ok: false, reason: 'no-session' };
+}
+
+/** The measured video's frame rate as the browser's presented frames tell it, or why not. */
+export async function readFrameRate(tabId: number, frameId: number): Promise<RateReply> {
+  const target = await withServer(tabId, frameId);
+  const [r] = await browser.scripting.executeScript({ target, func: askRate });
+  return (r?.result as RateReply | undefined) ?? { ok: false, reason: 'not-told' };
+}
+
+/** The frame at req.t of the video measured in the tab (and frame) given. */
+export async function readPageFrame(tabId: number, frameId: number, req: FrameRequest): Promise<PageFrame> {
+  const target = await withServer(tabId, frameId);
   const results = await browser.scripting.executeScript({ target, func: askOverlay, args: [req] });
   const reply = results[0]?.result as FrameReply | undefined;
   if (!reply) throw new FrameReadError('no-answer');

@@ -1,5 +1,5 @@
 import type { Registry } from './index';
-import { serveFrame } from './frame-server';
+import { serveFrame, serveRate } from './frame-server';
 
 /*
  * Injected beside the overlay only when an extension page first asks for frames (follow/page-frames.ts),
@@ -12,5 +12,9 @@ if (reg) {
   reg.frame ??= (req) => {
     const open = [...reg.sessions.values()][0];
     return open ? serveFrame(open.video, () => open.readPixels(), req) : Promise.resolve({ ok: false, reason: 'no-session' });
+  };
+  reg.rate ??= () => {
+    const open = [...reg.sessions.values()][0];
+    return open ? serveRate(open.video) : Promise.resolve({ ok: false, reason: 'no-session' });
   };
 }

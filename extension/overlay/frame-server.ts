@@ -1,5 +1,6 @@
 import type { Gray } from '../../src/case';
-import { MAX_STEP, type FrameReply, type FrameRequest } from '../shared/frames';
+import { measurePeriod } from '../shared/frame-period';
+import { MAX_STEP, type FrameReply, type FrameRequest, type RateReply } from '../shared/frames';
 
 /*
  * Frames for an extension page that measures every frame (issue 15: following the object, the
@@ -85,4 +86,56 @@ export async function serveFrame(video: HTMLVideoElement, read: () => Promise<{ 
   const got = await read();
   if (!got) return { ok: false, reason: 'no-pixels' };
   return { ok: true, t: video.currentTime, step: req.step, source: got.direct ? 'video' : 'capture', ...packLuma(got.img, req) };
+}
+
+/** A presented frame not reported by then is taken as not told; the whole measure is bounded too. */
+export const PRESENT_MS = 1_000;
+export const RATE_MS = 10_000;
+
+type FrameCallbackVideo = HTMLVideoElement & {
+  requestVideoFrameCallback?: (cb: (now: number, meta: { mediaTime: number }) => void) => number;
+  cancelVideoFrameCallback?: (id: number) => void;
+};
+
+/**
+ * The media time of the frame the browser presents after a seek to t (requestVideoFrameCallback's
+ * mediaTime), or null. A frame half a second away is shown first, so that the frame at t is a new
+ * one to present: a seek to the frame already shown may present nothing.
+ */
+export async function presentedAt(video: FrameCallbackVideo, t: number, ms = PRESENT_MS): Promise<number | null> {
+  if (typeof video.requestVideoFrameCallback !== 'function') return null;
+  const away = t >= 0.5 ? t - 0.5 : t + 0.5;
+  if (!(await seekTo(video, away, ms))) return null;
+  const view = video.ownerDocument.defaultView ?? window;
+  let id = 0;
+  let timer = 0;
+  const shown = new Promise<number | null>((done) => {
+    timer = view.setTimeout(() => done(null), ms);
+    id = video.requestVideoFrameCallback!((_now, meta) => done(Number.isFinite(meta.mediaTime) ? meta.mediaTime : null));
+  });
+  if (!(await seekTo(video, t, ms))) {
+    view.clearTimeout(timer);
+    video.cancelVideoFrameCallback?.(id);
+    return null;
+  }
+  const m = await shown;
+  view.clearTimeout(timer);
+  return m;
+}
+
+/**
+ * The clip's frame rate from the frames the browser presents round the current time (frame-period.ts),
+ * within RATE_MS; the video is left paused where it was. A page that seeks its video meanwhile can
+ * spoil the figure, which is why it is only offered, in a field the user can change.
+ */
+export async function serveRate(video: FrameCallbackVideo, ms = RATE_MS): Promise<RateReply> {
+  video.pause();
+  const was = video.currentTime;
+  const view = video.ownerDocument.defaultView ?? window;
+  let timer = 0;
+  const late = new Promise<null>((done) => (timer = view.setTimeout(() => done(null), ms)));
+  const r = await Promise.race([measurePeriod((t) => presentedAt(video, t), was, video.duration), late]);
+  view.clearTimeout(timer);
+  await seekTo(video, was);
+  return r ? { ok: true, ...r } : { ok: false, reason: 'not-told' };
 }

@@ -1,6 +1,6 @@
 import { Chooser } from './chooser';
 import { inputPolicy } from './dom';
-import type { FrameReply } from '../shared/frames';
+import type { FrameReply, RateReply } from '../shared/frames';
 import { MeasureSession } from './session';
 import { dropShell, takePreferredSrc, type CallUpStatus } from './shell';
 import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
@@ -18,6 +18,8 @@ export interface Registry {
   status(): CallUpStatus;
   /** A frame of the measured video for an extension page: set by frame-server.ts, injected only when a page asks. */
   frame?: (req: unknown) => Promise<FrameReply>;
+  /** The clip's frame rate as the browser's presented frames tell it: set by frame-server.ts too. */
+  rate?: () => Promise<RateReply>;
 }
 
 

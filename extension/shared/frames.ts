@@ -23,3 +23,8 @@ export type FrameReply =
 
 /** The coarsest block side a page may ask for. */
 export const MAX_STEP = 16;
+
+/** The clip's frame rate as the browser's presented frames tell it (frame-period.ts), or why not. */
+export type RateReply =
+  | { ok: true; fps: number; periodS: number; frames: number }
+  | { ok: false; reason: 'no-session' | 'not-told' };

@@ -19,7 +19,7 @@ export interface MeasuredRate {
 const EPS = 1e-4; // media times within 0.1 ms are the same frame (container clocks tick in 1 ms or finer)
 
 /**
- * The period: from the frame shown at t0 (at m0), steps of 1/1024 s doubled until another frame
+ * The period: from the frame shown at t0 (at m0), steps of 1/256 s (below the period of 240 fps, the most a plan takes) doubled until another frame
  * shows (at m1); the step before showed m0, so the next frame starts past half the step and m1 is
  * that next frame: P ~ m1 - m0. Then frames further on, to about `spanS`, are asked for, and P is
  * the distance over the whole number of frames between, which averages out a container clock's rounding (30 fps in
@@ -31,7 +31,7 @@ export async function measurePeriod(presented: (t: number) => Promise<number | n
   const m0 = await presented(t0);
   if (m0 === null) return null;
   let m1: number | null = null;
-  for (let d = 1 / 1024; d <= 1.01; d *= 2) {
+  for (let d = 1 / 256; d <= 1.01; d *= 2) {
     if (m0 + d >= end) return null;
     const m = await presented(m0 + d);
     if (m === null) return null;

@@ -84,7 +84,7 @@ describe('following the object from one hand mark', () => {
     await view.getByTestId('follow-to').fill('2.5');
     // the frame rate defaults to the clip's own, as the browser's presented frames tell it: the clip
     // was rendered at truth.video.fps (25, test/fixtures/generate.mjs via the truth file)
-    await expect.poll(() => view.getByTestId('follow-fps').inputValue(), { timeout: 20_000 }).toBe(String(truth.video.fps));
+    await expect.poll(() => view.getByTestId('follow-fps').inputValue(), { timeout: 40_000 }).toBe(String(truth.video.fps));
     expect(await view.getByTestId('follow-fps-source').textContent()).toMatch(/^Measured from the video: .* 25 frames a second\./);
     await view.getByTestId('follow-start').click();
     await expect.poll(() => view.getByTestId('follow-counts').textContent().catch(() => null), { timeout: 60_000 }).toMatch(/^\d+ frames followed, \d+ lost\.$/);
@@ -169,7 +169,7 @@ describe('following the object from one hand mark', () => {
     const view = await app.context.newPage();
     await view.setViewportSize({ width: 1100, height: 1000 });
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?view=follow&tab=${tabId}&frame=0&case=${caseId}&mark=${hand.id}`);
-    await expect.poll(() => view.getByTestId('follow-fps').inputValue(), { timeout: 20_000 }).toBe('25');
+    await expect.poll(() => view.getByTestId('follow-fps').inputValue(), { timeout: 40_000 }).toBe('25');
     await view.getByTestId('follow-from').fill('0.5');
     await view.getByTestId('follow-to').fill('2.5');
     await view.getByTestId('follow-start').click();
@@ -199,6 +199,7 @@ describe('following the object from one hand mark', () => {
     // a CSS pixel is 1 / scale of a video pixel: the pointer lands within half of one
     expect(Math.abs(placed[0]! - o.x1)).toBeLessThan(0.5 / z.s + 0.01);
     expect(Math.abs(placed[2]! - o.x2)).toBeLessThan(0.5 / z.s + 0.01);
+    if (process.env.FOLLOW_CORRECT_SHOT) await view.screenshot({ path: process.env.FOLLOW_CORRECT_SHOT, fullPage: true });
     await view.getByTestId('follow-reseed').click();
     // the frames after it, to the stretch's end at 2.5 s: frames 55 to 62
     await expect.poll(() => view.getByTestId('follow-note').textContent().catch(() => null), { timeout: 60_000 }).toBe('Corrected at 2.180 s: 8 frames followed again from there.');

@@ -1,15 +1,17 @@
 /// <reference lib="webworker" />
-import { followSteps, type FollowedFrame, type FollowRun, type FollowSeed, type FollowSettings, type Gray } from '../../src/case';
+import { followSteps, reseedSteps, type FollowedFrame, type FollowRun, type FollowSeed, type FollowSettings, type Gray } from '../../src/case';
 
 /*
  * The follow, off the page's thread: the engine's follower one frame at a time (followSteps). It asks
  * for the frame it needs next; the page reads it from the video and sends the region round the
  * object, which is laid into a picture of the video's size (black elsewhere: plan.ts regionAround
- * leaves the follower room enough). One run per worker.
+ * leaves the follower room enough). One run (or one correction's re-run) per worker.
  */
 
 export type FollowRequest =
   | { kind: 'start'; count: number; seed: FollowSeed; settings: Partial<FollowSettings>; width: number; height: number }
+  /** A correction: the run so far re-run from it where it depends on it (the engine's reseed). */
+  | { kind: 'reseed'; run: FollowRun; correction: FollowSeed; width: number; height: number }
   | { kind: 'frame'; index: number; x: number; y: number; width: number; height: number; data: Uint8ClampedArray };
 
 export type FollowReply =
@@ -46,6 +48,12 @@ scope.onmessage = (e: MessageEvent<FollowRequest>) => {
     if (m.kind === 'start') {
       size = { width: m.width, height: m.height };
       follow = followSteps(m.count, m.seed, m.settings);
+      ask(follow.steps.next());
+      return;
+    }
+    if (m.kind === 'reseed') {
+      size = { width: m.width, height: m.height };
+      follow = reseedSteps(m.run, m.correction);
       ask(follow.steps.next());
       return;
     }

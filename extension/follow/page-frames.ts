@@ -1,7 +1,7 @@
 import frameServerFile from '../overlay/frame-entry.ts?script&iife';
 import type { Gray } from '../../src/case';
 import { browser } from '../shared/browser';
-import type { FrameReply, FrameRequest, PictureReply } from '../shared/frames';
+import type { FrameReply, FrameRequest, PictureReply, RateReply } from '../shared/frames';
 
 /*
  * Frames of the measured video, read from an extension page (the work of following the object runs
@@ -51,6 +51,20 @@ function serverThere(): boolean {
 async function withServer(target: { tabId: number; frameIds: number[] }): Promise<void> {
   const [there] = await browser.scripting.executeScript({ target, func: serverThere });
   if (!there?.result) await browser.scripting.executeScript({ target, files: [frameServerFile] });
+}
+
+/** Self-contained (it runs in the tab's isolated world): asks the overlay there for the clip's frame rate. */
+function askRate(): Promise<RateReply> | RateReply {
+  const reg = (globalThis as unknown as Record<symbol, { rate?: () => Promise<RateReply> } | undefined>)[Symbol.for('clip-caliper.overlay')];
+  return reg?.rate ? reg.rate() : { ok: false, reason: 'no-session' };
+}
+
+/** The measured video's frame rate as the browser's presented frames tell it, or why not. */
+export async function readFrameRate(tabId: number, frameId: number): Promise<RateReply> {
+  const target = { tabId, frameIds: [frameId] };
+  await withServer(target);
+  const [r] = await browser.scripting.executeScript({ target, func: askRate });
+  return (r?.result as RateReply | undefined) ?? { ok: false, reason: 'not-told' };
 }
 
 /** The frame at req.t of the video measured in the tab (and frame) given. */

@@ -65,15 +65,33 @@ export function regionAround(ends: readonly { x: number; y: number }[], width: n
   return { x, y, width: Math.max(1, right - x), height: Math.max(1, bottom - y) };
 }
 
-/** The marks an accepted run adds: one object span per followed frame (the seed is the hand mark itself). */
-export function followedMarks(frames: readonly FollowedFrame[], plan: FollowPlan, seed: Mark, settings: FollowSettings, runId: string, now: number): Mark[] {
+/** The id of the hand mark a correction on frame `index` becomes when the run is accepted. */
+export const correctionId = (runId: string, index: number) => `${runId}-hand-${index}`;
+
+/**
+ * The marks an accepted run adds: one object span per followed frame, and one hand mark per frame
+ * the user corrected (`corrected`; the engine's seed there, its ends snapped as a hand mark's). The
+ * first hand mark is the seed itself and adds nothing. A followed frame records the mark it was
+ * followed from: the seed, or the correction it was re-run from.
+ */
+export function followedMarks(
+  frames: readonly FollowedFrame[],
+  plan: FollowPlan,
+  seed: Mark,
+  settings: FollowSettings,
+  runId: string,
+  now: number,
+  corrected: ReadonlySet<number> = new Set(),
+): Mark[] {
   const { first: _first, last: _last, ...kept } = settings;
+  const hand = (f: FollowedFrame) => f.status === 'seed' && corrected.has(f.index);
   return frames
-    .filter((f) => f.status === 'followed' && f.ends)
+    .filter((f) => f.ends && (f.status === 'followed' || hand(f)))
     .map((f) => {
       const [a, b] = f.ends!;
+      const from = corrected.has(f.from) ? correctionId(runId, f.from) : seed.id;
       return {
-        id: `${runId}-${f.index}`,
+        id: hand(f) ? correctionId(runId, f.index) : `${runId}-${f.index}`,
         kind: 'object-span',
         t: timeOf(plan, f.index),
         points: [
@@ -83,7 +101,7 @@ export function followedMarks(frames: readonly FollowedFrame[], plan: FollowPlan
         // one sigma for both ends (a mark carries one): their root mean square
         edgeSigmaPx: Math.sqrt((a.sigmaPx ** 2 + b.sigmaPx ** 2) / 2),
         ...(seed.dimension ? { dimension: seed.dimension } : {}),
-        followed: { from: seed.id, run: runId, confidence: f.confidence, match: Number.isFinite(f.match) ? f.match : 0, settings: kept },
+        ...(hand(f) ? {} : { followed: { from, run: runId, confidence: f.confidence, match: Number.isFinite(f.match) ? f.match : 0, settings: kept } }),
         mapping: seed.mapping,
         createdAt: now,
       };

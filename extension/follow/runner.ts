@@ -1,4 +1,4 @@
-import { DEFAULT_FOLLOW, type FollowedFrame, type FollowRun, type Mark } from '../../src/case';
+import { DEFAULT_FOLLOW, type FollowedFrame, type FollowRun, type FollowSeed, type Mark } from '../../src/case';
 import type { FollowReply, FollowRequest } from './follow-worker';
 import { readPageFrame } from './page-frames';
 import { regionAround, timeOf, type FollowPlan } from './plan';
@@ -16,6 +16,8 @@ export interface RunOptions {
   seed: Mark;
   video: { width: number; height: number };
   signal: AbortSignal;
+  /** A correction to re-run the given run from (the engine's reseed), instead of a first run from the seed. */
+  correction?: { run: FollowRun; seed: FollowSeed };
   /** Each frame's result as it comes, with how many frames are done. */
   onFrame(frame: FollowedFrame, done: number): void;
 }
@@ -23,13 +25,15 @@ export interface RunOptions {
 export function runFollow(o: RunOptions): Promise<FollowRun> {
   const worker = new Worker(new URL('./follow-worker.ts', import.meta.url), { type: 'module' });
   const [p, q] = o.seed.points as [{ x: number; y: number }, { x: number; y: number }];
-  const seedEnds = [p, q];
+  // a correction's re-run starts from the user's ends on its frame
+  const seedEnds = o.correction ? o.correction.seed.ends.map((e) => ({ x: e.x, y: e.y })) : [p, q];
+  const seedIndex = o.correction ? o.correction.seed.frame : o.plan.seedIndex;
   // the last ends trusted on each side of the seed: the next frame's region is laid round them
   const last = new Map<number, readonly { x: number; y: number }[]>([
     [-1, seedEnds],
     [1, seedEnds],
   ]);
-  const side = (k: number) => (k < o.plan.seedIndex ? -1 : 1);
+  const side = (k: number) => (k < seedIndex ? -1 : 1);
   let done = 0;
   return new Promise<FollowRun>((resolve, reject) => {
     const finish = (err: Error | null, run?: FollowRun) => {
@@ -67,6 +71,10 @@ export function runFollow(o: RunOptions): Promise<FollowRun> {
         finish(err as Error);
       }
     };
+    if (o.correction) {
+      send({ kind: 'reseed', run: o.correction.run, correction: o.correction.seed, width: o.video.width, height: o.video.height });
+      return;
+    }
     send({
       kind: 'start',
       count: o.plan.count,

@@ -1,7 +1,10 @@
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { CaseRecord, FollowedFrame, Mark } from '../../src/case';
+import { reseedRange, type CaseRecord, type FollowedFrame, type FollowRun, type Mark } from '../../src/case';
 import { message as t, send } from '../shared/browser';
-import { FrameReadError, readVideoFacts, type VideoFacts } from './page-frames';
+import type { RateReply } from '../shared/frames';
+import { CorrectFrame } from './correct';
+import { correctionSeed, startEnds, type Pt } from './corrections';
+import { FrameReadError, readFrameRate, readVideoFacts, type VideoFacts } from './page-frames';
 import { followedMarks, PlanError, planFollow, timeOf, type FollowPlan } from './plan';
 import { runFollow } from './runner';
 import { FollowStrip } from './strip';
@@ -16,7 +19,7 @@ import './follow.css';
 
 type Phase =
   | { kind: 'ready' }
-  | { kind: 'running'; done: number }
+  | { kind: 'running'; done: number; total: number }
   | { kind: 'finished'; runId: string }
   | { kind: 'added'; count: number }
   | { kind: 'stopped'; text: string };
@@ -28,6 +31,11 @@ const seconds = (x: number) => x.toFixed(3);
 function reasonText(err: unknown): string {
   if (err instanceof FrameReadError) return t(err.reason === 'no-session' ? 'followNoVideo' : err.reason === 'seek-timeout' ? 'followSeekTimeout' : 'followNoPixels');
   return (err as Error).message;
+}
+
+function pickedText(f: FollowedFrame): string {
+  if (f.status === 'lost') return t('followPickedLost', f.reason ?? '');
+  return t(f.status === 'seed' ? 'followPickedSeed' : 'followPickedFollowed');
 }
 
 export function FollowView() {
@@ -44,12 +52,31 @@ export function FollowView() {
   const [frames, setFrames] = useState<(FollowedFrame | undefined)[]>([]);
   const plan = useRef<FollowPlan | null>(null);
   const stop = useRef<AbortController | null>(null);
-  const lastRun = useRef<Awaited<ReturnType<typeof runFollow>> | null>(null);
+  const lastRun = useRef<FollowRun | null>(null);
+  // the frame rate the browser tells (null while it is measured), and whether the user has set the field
+  const [rate, setRate] = useState<RateReply | null>(null);
+  const fpsTyped = useRef(false);
+  const [picked, setPicked] = useState<number | null>(null);
+  const corrected = useRef(new Set<number>());
+  const [note, setNote] = useState<string | null>(null);
 
   useEffect(() => {
     document.title = t('followTitle');
     send('case/get', { caseId }).then(setCase, (e: Error) => setProblem(e.message));
-    readVideoFacts(tabId, frameId).then(setFacts, (e) => setProblem(reasonText(e)));
+    readVideoFacts(tabId, frameId).then(
+      (f) => {
+        setFacts(f);
+        // after the facts (the overlay is there): the rate seeks the video, so Start waits for it
+        readFrameRate(tabId, frameId).then(
+          (r) => {
+            setRate(r);
+            if (r.ok && !fpsTyped.current) setForm((x) => ({ ...x, fps: String(r.fps) }));
+          },
+          () => setRate({ ok: false, reason: 'not-told' }),
+        );
+      },
+      (e) => setProblem(reasonText(e)),
+    );
   }, []);
   const seed: Mark | undefined = c?.marks.find((m) => m.id === q.get('mark')) ?? c?.marks.filter((m) => m.kind === 'object-span' && !m.followed).at(-1);
   useEffect(() => {
@@ -70,11 +97,14 @@ export function FollowView() {
     }
     setFieldError(null);
     plan.current = p;
+    setPicked(null);
+    setNote(null);
+    corrected.current = new Set();
     const seen: (FollowedFrame | undefined)[] = new Array(p.count);
     setFrames(seen.slice());
     const ctrl = new AbortController();
     stop.current = ctrl;
-    setPhase({ kind: 'running', done: 0 });
+    setPhase({ kind: 'running', done: 0, total: p.count });
     try {
       const run = await runFollow({
         tabId,
@@ -86,7 +116,7 @@ export function FollowView() {
         onFrame: (f, done) => {
           seen[f.index] = f;
           setFrames(seen.slice());
-          setPhase({ kind: 'running', done });
+          setPhase({ kind: 'running', done, total: p.count });
         },
       });
       setFrames(run.frames);
@@ -97,10 +127,49 @@ export function FollowView() {
     }
   };
 
+  /** A correction on frame `index`: the engine's reseed from it, in the worker, for the frames that depend on it. */
+  const correct = async (index: number, ends: [Pt, Pt]) => {
+    const run = lastRun.current;
+    const p = plan.current;
+    if (!run || !p || !seed || !facts || phase.kind !== 'finished') return;
+    const runId = phase.runId;
+    const [lo, hi] = reseedRange(run, index);
+    const seen = run.frames.slice();
+    const ctrl = new AbortController();
+    stop.current = ctrl;
+    setNote(null);
+    setPhase({ kind: 'running', done: 0, total: hi - lo + 1 });
+    try {
+      const next = await runFollow({
+        tabId,
+        frameId,
+        plan: p,
+        seed,
+        video: { width: facts.width, height: facts.height },
+        signal: ctrl.signal,
+        correction: { run, seed: correctionSeed(index, ends, seed.edgeSigmaPx) },
+        onFrame: (f, done) => {
+          seen[f.index] = f;
+          setFrames(seen.slice());
+          setPhase({ kind: 'running', done, total: hi - lo + 1 });
+        },
+      });
+      lastRun.current = next;
+      corrected.current.add(index);
+      setFrames(next.frames);
+      setNote(t('followCorrected', [seconds(timeOf(p, index)), String(hi - lo)]));
+    } catch (e) {
+      // the run before the correction stands, whole
+      setFrames(run.frames);
+      setNote((e as Error).name === 'AbortError' ? t('followCancelled') : t('followFailed', reasonText(e)));
+    }
+    setPhase({ kind: 'finished', runId });
+  };
+
   const accept = async () => {
     const run = lastRun.current;
     if (!run || !seed || phase.kind !== 'finished' || !plan.current) return;
-    const marks = followedMarks(run.frames, plan.current, seed, run.settings, phase.runId, Date.now());
+    const marks = followedMarks(run.frames, plan.current, seed, run.settings, phase.runId, Date.now(), corrected.current);
     try {
       await send('marks/put', { caseId, marks });
       setPhase({ kind: 'added', count: marks.length });
@@ -118,7 +187,17 @@ export function FollowView() {
   const field = (key: 'from' | 'to' | 'fps', label: string) => (
     <label>
       {label}
-      <input type="number" step="any" value={form[key]} data-testid={`follow-${key}`} disabled={phase.kind === 'running'} onInput={(e) => setForm({ ...form, [key]: (e.target as HTMLInputElement).value })} />
+      <input
+        type="number"
+        step="any"
+        value={form[key]}
+        data-testid={`follow-${key}`}
+        disabled={phase.kind === 'running'}
+        onInput={(e) => {
+          if (key === 'fps') fpsTyped.current = true;
+          setForm({ ...form, [key]: (e.target as HTMLInputElement).value });
+        }}
+      />
     </label>
   );
   return (
@@ -130,16 +209,19 @@ export function FollowView() {
         {field('from', t('followFrom'))}
         {field('to', t('followTo'))}
         {field('fps', t('followFps'))}
-        <button type="submit" data-testid="follow-start" disabled={phase.kind === 'running'}>{t('followStart')}</button>
+        <button type="submit" data-testid="follow-start" disabled={phase.kind === 'running' || rate === null}>{t('followStart')}</button>
         {phase.kind === 'running' && <button type="button" class="secondary" data-testid="follow-cancel" onClick={() => stop.current?.abort()}>{t('followCancel')}</button>}
       </form>
+      <p class="muted" data-testid="follow-fps-source">
+        {rate === null ? t('followFpsMeasuring') : rate.ok ? t('followFpsMeasured', [rate.periodS.toFixed(4), String(rate.frames), String(rate.fps)]) : t('followFpsGuess')}
+      </p>
       {fieldError && <p class="error" role="alert" data-testid="follow-field-error">{fieldError}</p>}
       {p && phase.kind === 'running' && (
         <p role="status">
-          <progress max={p.count} value={phase.done} /> {t('followProgress', [String(phase.done), String(p.count)])}
+          <progress max={phase.total} value={phase.done} /> {t('followProgress', [String(phase.done), String(phase.total)])}
         </p>
       )}
-      {p && frames.length > 0 && <FollowStrip frames={frames} count={p.count} />}
+      {p && frames.length > 0 && <FollowStrip frames={frames} count={p.count} picked={picked} onPick={phase.kind === 'finished' ? setPicked : undefined} />}
       {p && frames.length > 0 && <p class="muted">{t('followStripLegend', [seconds(timeOf(p, 0)), seconds(timeOf(p, p.count - 1))])}</p>}
       {p && (phase.kind === 'finished' || phase.kind === 'added') && (
         <p data-testid="follow-counts">{t('followCounts', [String(followedCount), String(lost.length)])}</p>
@@ -150,6 +232,20 @@ export function FollowView() {
           <ul>{lost.map((f) => <li key={f.index}>{t('followLostAt', [seconds(timeOf(p, f.index)), f.reason ?? ''])}</li>)}</ul>
         </details>
       )}
+      {p && picked !== null && phase.kind !== 'added' && frames[picked] && <p data-testid="follow-picked">{t('followPicked', [seconds(timeOf(p, picked)), String(picked + 1), String(p.count), pickedText(frames[picked]!)])}</p>}
+      {p && facts && picked !== null && (phase.kind === 'finished' || phase.kind === 'running') && startEnds(frames, picked) && (
+        <CorrectFrame
+          key={`${picked}-${frames[picked]?.status}-${frames[picked]?.from}`}
+          tabId={tabId}
+          frameId={frameId}
+          t={timeOf(p, picked)}
+          video={{ width: facts.width, height: facts.height }}
+          start={startEnds(frames, picked)!}
+          busy={phase.kind === 'running'}
+          onApply={(ends) => void correct(picked, ends)}
+        />
+      )}
+      {note && <p role="status" data-testid="follow-note">{note}</p>}
       {phase.kind === 'finished' && followedCount > 0 && (
         <button type="button" class="primary" data-testid="follow-accept" onClick={() => void accept()}>{t('followAccept', String(followedCount))}</button>
       )}

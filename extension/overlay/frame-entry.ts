@@ -1,5 +1,5 @@
 import type { Registry } from './index';
-import { serveFrame, servePicture } from './frame-server';
+import { serveFrame, servePicture, serveRate } from './frame-server';
 
 /*
  * Injected beside the overlay only when an extension page first asks for frames (follow/page-frames.ts),
@@ -16,5 +16,9 @@ if (reg) {
   reg.picture ??= () => {
     const open = [...reg.sessions.values()][0];
     return open ? servePicture(open.video, () => open.readPixels()) : Promise.resolve({ ok: false, reason: 'no-session' });
+  };
+  reg.rate ??= () => {
+    const open = [...reg.sessions.values()][0];
+    return open ? serveRate(open.video) : Promise.resolve({ ok: false, reason: 'no-session' });
   };
 }

@@ -1,5 +1,6 @@
 import type { Gray } from '../../src/case';
-import { MAX_STEP, type FrameReply, type FrameRequest, type PictureReply } from '../shared/frames';
+import { measurePeriod } from '../shared/frame-period';
+import { MAX_STEP, type FrameReply, type FrameRequest, type PictureReply, type RateReply } from '../shared/frames';
 
 /*
  * Frames for an extension page that measures every frame (issue 15: following the object, the
@@ -26,9 +27,10 @@ export function checkRequest(r: unknown): r is FrameRequest {
 }
 
 /** Shows the frame at t: pauses, seeks, and waits for the browser's own 'seeked' (a page's forged event is not it). */
-export async function seekTo(video: HTMLVideoElement, t: number, ms = SEEK_MS): Promise<boolean> {
+export async function seekTo(video: HTMLVideoElement, t: number, ms = SEEK_MS, always = false): Promise<boolean> {
   video.pause();
-  if (Math.abs(video.currentTime - t) < 1e-6 && !video.seeking) return true;
+  // already there: nothing to wait for, unless a presented frame is wanted (a seek presents one)
+  if (!always && Math.abs(video.currentTime - t) < 1e-6 && !video.seeking) return true;
   const view = video.ownerDocument.defaultView ?? window;
   return new Promise<boolean>((done) => {
     const timer = view.setTimeout(() => finish(false), ms);
@@ -129,4 +131,66 @@ export async function servePicture(video: HTMLVideoElement, read: () => Promise<
   if (!ctx) return { ok: false, reason: 'no-pixels' };
   ctx.putImageData(new ImageData(new Uint8ClampedArray(img.data), img.width, img.height), 0, 0);
   return { ok: true, t: video.currentTime, width: img.width, height: img.height, source: got.direct ? 'video' : 'capture', png: canvas.toDataURL('image/png') };
+}
+
+/**
+ * A presented frame not reported by then is taken as not told; the whole measure is bounded too. A
+ * tab in the background (the follow page in front of it) presents about once a second (measured in
+ * the e2e Chromium: 1.02 s from seek to callback), and the measure takes about 8 seeks.
+ */
+export const PRESENT_MS = 2_500;
+export const RATE_MS = 30_000;
+
+type FrameCallbackVideo = HTMLVideoElement & {
+  requestVideoFrameCallback?: (cb: (now: number, meta: { mediaTime: number }) => void) => number;
+  cancelVideoFrameCallback?: (id: number) => void;
+};
+
+/** Seeks to t and answers the media time of the frame the browser then presents, or null in `ms`. */
+async function seekShown(video: FrameCallbackVideo, t: number, ms: number): Promise<number | null> {
+  const view = video.ownerDocument.defaultView ?? window;
+  let id = 0;
+  let timer = 0;
+  // asked before the seek, so that the frame it presents is the one reported
+  const shown = new Promise<number | null>((done) => {
+    timer = view.setTimeout(() => done(null), ms);
+    id = video.requestVideoFrameCallback!((_now, meta) => done(Number.isFinite(meta.mediaTime) ? meta.mediaTime : null));
+  });
+  if (!(await seekTo(video, t, ms, true))) {
+    view.clearTimeout(timer);
+    video.cancelVideoFrameCallback?.(id);
+    return null;
+  }
+  const m = await shown;
+  view.clearTimeout(timer);
+  return m;
+}
+
+/**
+ * The media time of the frame the browser presents after a seek to t (requestVideoFrameCallback's
+ * mediaTime), or null. Chromium presents (and reports) a frame after every seek, the same frame
+ * again included; a browser that does not runs out of time here and the rate is "not told". A frame
+ * not at or just before t (by at most a second) is not taken.
+ */
+export async function presentedAt(video: FrameCallbackVideo, t: number, ms = PRESENT_MS): Promise<number | null> {
+  if (typeof video.requestVideoFrameCallback !== 'function') return null;
+  const m = await seekShown(video, t, ms);
+  return m !== null && m <= t + 1e-3 && m > t - 1 ? m : null;
+}
+
+/**
+ * The clip's frame rate from the frames the browser presents round the current time (frame-period.ts),
+ * within RATE_MS; the video is left paused where it was. A page that seeks its video meanwhile can
+ * spoil the figure, which is why it is only offered, in a field the user can change.
+ */
+export async function serveRate(video: FrameCallbackVideo, ms = RATE_MS): Promise<RateReply> {
+  video.pause();
+  const was = video.currentTime;
+  const view = video.ownerDocument.defaultView ?? window;
+  let timer = 0;
+  const late = new Promise<null>((done) => (timer = view.setTimeout(() => done(null), ms)));
+  const r = await Promise.race([measurePeriod((t) => presentedAt(video, t), was, video.duration), late]);
+  view.clearTimeout(timer);
+  await seekTo(video, was);
+  return r ? { ok: true, ...r } : { ok: false, reason: 'not-told' };
 }

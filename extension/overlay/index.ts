@@ -1,6 +1,6 @@
 import { Chooser } from './chooser';
 import { inputPolicy } from './dom';
-import type { FrameReply, PictureReply } from '../shared/frames';
+import type { FrameReply, PictureReply, RateReply } from '../shared/frames';
 import { MeasureSession } from './session';
 import { dropShell, takePreferredSrc, type CallUpStatus } from './shell';
 import { findVideos, foreignFrameOrigins, videoContainers } from './videos';
@@ -20,6 +20,8 @@ export interface Registry {
   frame?: (req: unknown) => Promise<FrameReply>;
   /** The paused frame whole, for the annotated frame: set beside `frame`, by the same lazily injected file. */
   picture?: () => Promise<PictureReply>;
+  /** The clip's frame rate as the browser's presented frames tell it: set by frame-server.ts too. */
+  rate?: () => Promise<RateReply>;
 }
 
 

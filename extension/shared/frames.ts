@@ -32,3 +32,8 @@ export const MAX_STEP = 16;
 export type PictureReply =
   | { ok: true; t: number; width: number; height: number; source: 'video' | 'capture'; png: string }
   | { ok: false; reason: 'no-session' | 'no-pixels' };
+
+/** The clip's frame rate as the browser's presented frames tell it (frame-period.ts), or why not. */
+export type RateReply =
+  | { ok: true; fps: number; periodS: number; frames: number }
+  | { ok: false; reason: 'no-session' | 'not-told' };

@@ -77,5 +77,5 @@ export { createCaseStore } from './store/case-store';
 export type { KeyValueArea } from './store/port';
 export { readStoredCase } from './stored';
 // following the object through the clip (issue 15): the engine's follower, for the follow page's worker
-export { DEFAULT_FOLLOW, followSteps } from '../engine/follow';
+export { DEFAULT_FOLLOW, followSteps, reseedRange, reseedSteps } from '../engine/follow';
 export type { FollowedFrame, FollowRun, FollowSeed, FollowSettings } from '../engine/follow';

@@ -175,11 +175,19 @@ export function follow(source: FrameSource, seed: FollowSeed, options: Partial<F
  * stays as it was. Correcting a hand mark itself re-runs both of its sides.
  */
 export function reseed(run: FollowRun, source: FrameSource, correction: FollowSeed): FollowRun {
-  // the same settings as the run, so that every frame of it was followed alike
-  const s = settle(source, run.settings);
+  const r = reseedSteps(run, correction);
+  for (let k = r.steps.next(); !k.done; ) k = r.steps.next(source.frame(k.value));
+  return r.run;
+}
+
+/**
+ * The frames a correction on frame c re-runs, [lo, hi]: those followed from the same hand mark as c,
+ * on c's far side from that mark (both sides when c is a hand mark), up to the next hand mark.
+ */
+export function reseedRange(run: FollowRun, c: number): [number, number] {
+  const s = run.settings;
   if (run.frames.length !== s.last - s.first + 1) throw new InputError('run frames', run.frames.length, `${s.last - s.first + 1} (first to last frame)`);
-  integer('corrected frame', correction.frame, s.first, s.last);
-  const c = correction.frame;
+  integer('corrected frame', c, s.first, s.last);
   const origin = run.frames[c - s.first]!.from;
   // the stretch of frames followed from the same mark, on the correction's side of it
   const same = (k: number) => k >= s.first && k <= s.last && run.frames[k - s.first]!.from === origin && run.frames[k - s.first]!.status !== 'seed';
@@ -187,9 +195,20 @@ export function reseed(run: FollowRun, source: FrameSource, correction: FollowSe
   let hi = c;
   if (c >= origin) while (same(hi + 1)) hi++;
   if (c <= origin) while (same(lo - 1)) lo--;
+  return [lo, hi];
+}
+
+/**
+ * reseed() one frame at a time, as followSteps is to follow(): yields the index of the frame it
+ * needs next and takes it back through next(); `run` is a new run (the given one is not changed)
+ * whose frames in reseedRange are replaced as they are known.
+ */
+export function reseedSteps(run: FollowRun, correction: FollowSeed): { run: FollowRun; steps: Generator<number, void, Gray> } {
+  // the same settings as the run, so that every frame of it was followed alike
+  const s = settle({ count: run.settings.last + 1, frame: () => ({ data: new Uint8ClampedArray(1), width: 1, height: 1, channels: 1 }) }, run.settings);
+  const [lo, hi] = reseedRange(run, correction.frame);
   const frames = run.frames.slice();
-  followFrom(source, correction, s, lo, hi, frames, s.first);
-  return { settings: s, frames };
+  return { run: { settings: s, frames }, steps: stepsFrom(correction, s, lo, hi, frames, s.first) };
 }
 
 function checkSeed(seed: FollowSeed): void {

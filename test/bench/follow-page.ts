@@ -109,6 +109,8 @@ export async function followPageBench(): Promise<void> {
       }).observe({ type: 'longtask', buffered: true });
     });
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?view=follow&tab=${tabId}&frame=0&case=${c.id}&mark=${c.marks[0]!.id}`);
+    // the page measures the clip's frame rate first (Start is held until then): not part of the follow's time
+    await view.locator('[data-testid=follow-start]:enabled').waitFor({ timeout: 60_000 });
     await view.getByTestId('follow-from').fill('0');
     await view.getByTestId('follow-to').fill(String(FRAMES / FPS));
     await view.getByTestId('follow-fps').fill(String(FPS));

@@ -1,5 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import type { Page } from 'playwright-core';
 import { E2E_DIST, injectOverlay, launchWithExtension, overlayReady, seek, storedCases, tabIdFor, videoReady, type Loaded } from './harness';
 import { startServer, type TestServer } from '../../extension/tools/static-server';
@@ -18,7 +20,15 @@ interface TruthFrame {
   index: number;
   object: { x1: number; y1: number; x2: number; y2: number };
 }
-const truth = JSON.parse(readFileSync('test/fixtures/clips/pass-tracked.truth.json', 'utf8')) as { frames: TruthFrame[] };
+const truth = JSON.parse(readFileSync('test/fixtures/clips/pass-tracked.truth.json', 'utf8')) as { frames: TruthFrame[]; video: { fps: number } };
+type Ends = { x1: number; y1: number; x2: number; y2: number };
+/** The exact ends of any frame of the clip, from the fixture library that rendered it (test/fixtures/lib, as test/engine/follow-scenes.ts loads it). */
+async function frameTruthOf(name: string): Promise<(i: number) => Ends> {
+  const at = (f: string) => import(pathToFileURL(resolve('test/fixtures/lib', f)).href) as Promise<Record<string, unknown>>;
+  const [{ frameTruth }, { scenes }] = (await Promise.all([at('truth.mjs'), at('scenes.mjs')])) as [{ frameTruth: (s: unknown, i: number) => { object: Ends } }, { scenes: () => { name: string }[] }];
+  const scene = scenes().find((x) => x.name === name)!;
+  return (i) => frameTruth(scene, i).object;
+}
 type StoredMark = { id: string; kind: string; t: number; points: { x: number; y: number }[]; edgeSigmaPx: number; followed?: { from: string; run: string; confidence: number } };
 
 let app: Loaded;
@@ -77,7 +87,10 @@ describe('following the object from one hand mark', () => {
     await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?view=follow&tab=${tabId}&frame=0&case=${caseId}&mark=${hand.id}`);
     await view.getByTestId('follow-from').fill('0.5');
     await view.getByTestId('follow-to').fill('2.5');
-    await view.getByTestId('follow-fps').fill('25');
+    // the frame rate defaults to the clip's own, as the browser's presented frames tell it: the clip
+    // was rendered at truth.video.fps (25, test/fixtures/generate.mjs via the truth file)
+    await expect.poll(() => view.getByTestId('follow-fps').inputValue(), { timeout: 40_000 }).toBe(String(truth.video.fps));
+    expect(await view.getByTestId('follow-fps-source').textContent()).toMatch(/^Measured from the video: .* 25 frames a second\./);
     await view.getByTestId('follow-start').click();
     await expect.poll(() => view.getByTestId('follow-counts').textContent().catch(() => null), { timeout: 60_000 }).toMatch(/^\d+ frames followed, \d+ lost\.$/);
     const counts = /^(\d+) frames followed, (\d+) lost\.$/.exec((await view.getByTestId('follow-counts').textContent())!)!;
@@ -142,4 +155,88 @@ describe('following the object from one hand mark', () => {
     await view.close();
     await page.close();
   }, 120_000);
+
+  it('a frame corrected on the strip re-seeds the follow from there; accepted, it is a hand mark and the later frames are followed from it', async () => {
+    const page = await app.context.newPage();
+    await page.setViewportSize({ width: 1100, height: 800 });
+    await page.goto(server.url('/plain.html?follow-correct'));
+    await videoReady(page);
+    await injectOverlay(app, page.url());
+    await overlayReady(page);
+    const seed = truth.frames[2]!; // frame 38, 1.54 s
+    await seek(page, seed.t);
+    await markObject(page, seed);
+    await expect.poll(async () => (await caseOf(page.url())).marks.length).toBe(1);
+    const hand = (await caseOf(page.url())).marks[0]!;
+    const { id: caseId } = await caseOf(page.url());
+    const tabId = await tabIdFor(app, page.url());
+    const exact = await frameTruthOf('pass-tracked');
+
+    const view = await app.context.newPage();
+    await view.setViewportSize({ width: 1100, height: 1000 });
+    await view.goto(`chrome-extension://${app.extensionId}/extension/popup/index.html?view=follow&tab=${tabId}&frame=0&case=${caseId}&mark=${hand.id}`);
+    await expect.poll(() => view.getByTestId('follow-fps').inputValue(), { timeout: 40_000 }).toBe('25');
+    await view.getByTestId('follow-from').fill('0.5');
+    await view.getByTestId('follow-to').fill('2.5');
+    await view.getByTestId('follow-start').click();
+    await expect.poll(() => view.getByTestId('follow-counts').textContent().catch(() => null), { timeout: 60_000 }).toMatch(/^\d+ frames followed, \d+ lost\.$/);
+
+    // frame 54 (2.18 s, a truth frame of the file) is index 42 of the 51: 26 steps before the seed's index 26 is frame 12
+    const fixFrame = truth.frames[3]!;
+    expect(fixFrame.index).toBe(54);
+    const index = fixFrame.index - 12;
+    const strip = (await view.getByTestId('follow-strip').boundingBox())!;
+    await view.mouse.click(strip.x + ((index + 0.5) / 51) * strip.width, strip.y + strip.height / 2);
+    await expect.poll(() => view.getByTestId('follow-picked').textContent()).toMatch(/^Frame at 2\.180 s \(43 of 51\): followed\.$/);
+    await expect.poll(() => view.getByTestId('follow-reseed').isEnabled()).toBe(true);
+    const zoom = view.getByTestId('follow-zoom');
+    const z = { x: Number(await zoom.getAttribute('data-x')), y: Number(await zoom.getAttribute('data-y')), s: Number(await zoom.getAttribute('data-scale')) };
+    const zb = (await zoom.boundingBox())!;
+    const client = (x: number, y: number) => [zb.x + (x - z.x) * z.s, zb.y + (y - z.y) * z.s] as const;
+    // end 1 placed by the pointer on the truth; end 2 by the pointer a pixel right of it, then ten
+    // keyboard nudges of a tenth of a pixel back
+    const o = fixFrame.object;
+    await view.mouse.click(...client(o.x1, o.y1));
+    await view.mouse.click(...client(o.x2 + 1, o.y2));
+    await view.getByTestId('follow-end-2').check();
+    await zoom.focus();
+    for (let k = 0; k < 10; k++) await view.keyboard.press('ArrowLeft');
+    const placed = /^End 1 at ([\d.]+), ([\d.]+); end 2 at ([\d.]+), ([\d.]+)/.exec((await view.getByTestId('follow-ends-at').textContent())!)!.slice(1).map(Number);
+    // a CSS pixel is 1 / scale of a video pixel: the pointer lands within half of one
+    expect(Math.abs(placed[0]! - o.x1)).toBeLessThan(0.5 / z.s + 0.01);
+    expect(Math.abs(placed[2]! - o.x2)).toBeLessThan(0.5 / z.s + 0.01);
+    if (process.env.FOLLOW_CORRECT_SHOT) await view.screenshot({ path: process.env.FOLLOW_CORRECT_SHOT, fullPage: true });
+    await view.getByTestId('follow-reseed').click();
+    // the frames after it, to the stretch's end at 2.5 s: frames 55 to 62
+    await expect.poll(() => view.getByTestId('follow-note').textContent().catch(() => null), { timeout: 60_000 }).toBe('Corrected at 2.180 s: 8 frames followed again from there.');
+    await view.getByTestId('follow-accept').click();
+    await expect.poll(() => view.getByTestId('follow-added').textContent().catch(() => null)).toMatch(/^Added 50 marks/);
+
+    const marks = (await caseOf(page.url())).marks;
+    const hands = marks.filter((m) => !m.followed);
+    expect(hands).toHaveLength(2);
+    const fix = hands.find((m) => m.id !== hand.id)!;
+    expect(fix.kind).toBe('object-span');
+    expect(Math.abs(fix.t - fixFrame.t)).toBeLessThan(1e-6);
+    // the correction as stored: the placed ends snapped as a hand mark's, within 1 px of the truth
+    expect(Math.hypot(fix.points[0]!.x - o.x1, fix.points[0]!.y - o.y1)).toBeLessThan(1);
+    expect(Math.hypot(fix.points[1]!.x - o.x2, fix.points[1]!.y - o.y2)).toBeLessThan(1);
+    const followed = marks.filter((m) => m.followed);
+    expect(followed).toHaveLength(49);
+    const after = followed.filter((m) => m.t > fixFrame.t + 0.02);
+    expect(after).toHaveLength(8);
+    expect(after.every((m) => m.followed!.from === fix.id)).toBe(true);
+    expect(followed.filter((m) => m.t < fixFrame.t).every((m) => m.followed!.from === hand.id)).toBe(true);
+    // the re-run's frames against the exact truth of each frame (the fixture library): within 1 px,
+    // the allowance of fixture-clips.test.ts for decoded frames
+    for (const m of after) {
+      const i = Math.round(m.t * 25 - 0.5); // frame i is shown at (i + 0.5) / fps (truth file, conventions)
+      const e = exact(i);
+      const [a, b] = m.points as [{ x: number; y: number }, { x: number; y: number }];
+      expect(Math.hypot(a.x - e.x1, a.y - e.y1), `end 1 of frame ${i}`).toBeLessThan(1);
+      expect(Math.hypot(b.x - e.x2, b.y - e.y2), `end 2 of frame ${i}`).toBeLessThan(1);
+    }
+    await view.close();
+    await page.close();
+  }, 150_000);
 });

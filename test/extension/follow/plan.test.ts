@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { FollowedFrame, Mark } from '../../../src/case';
 import { DEFAULT_FOLLOW } from '../../../src/case';
-import { followedMarks, MAX_FRAMES, planFollow, regionAround, timeOf } from '../../../extension/follow/plan';
+import { correctionId, followedMarks, MAX_FRAMES, planFollow, regionAround, timeOf } from '../../../extension/follow/plan';
 import { validateMark } from '../../../src/case/validate';
 
 /*
@@ -56,6 +56,30 @@ describe('followedMarks', () => {
     ]);
     expect(marks[0]!.edgeSigmaPx).toBeCloseTo(Math.sqrt((0.09 + 0.16) / 2), 12);
     expect(marks[0]!.followed).toEqual({ from: 'hand', run: 'run-x', confidence: 0.9, match: 0.99, settings: DEFAULT_FOLLOW });
+    for (const [i, m] of marks.entries()) expect(validateMark(m, `marks[${i}]`, 640, 360)).toEqual(m);
+  });
+
+  it('makes a corrected frame a hand mark (not followed) and the frames re-run from it say so', () => {
+    // invented: frame 3 corrected, frames 4 and 5 re-run from it; frame 6 lost stays lost and adds nothing
+    const plan = planFollow(1, 0.96, 1.2, 25, 4);
+    const run: FollowedFrame[] = [
+      ...frames.slice(0, 3),
+      { index: 3, status: 'seed', reason: null, ends: [end(301, 0.4), end(329, 0.3)], confidence: 1, match: Number.NaN, from: 3 },
+      { index: 4, status: 'followed', reason: null, ends: [end(302, 0.3), end(328, 0.3)], confidence: 0.8, match: 0.97, from: 3 },
+      { index: 5, status: 'followed', reason: null, ends: [end(303, 0.3), end(327, 0.3)], confidence: 0.8, match: 0.97, from: 3 },
+      { index: 6, status: 'lost', reason: 'no match', ends: null, confidence: 0, match: 0.3, from: 3 },
+    ];
+    const marks = followedMarks(run, plan, seed, { ...DEFAULT_FOLLOW, first: 0, last: 6 }, 'run-y', 5, new Set([3]));
+    expect(marks.map((m) => [m.id, m.followed?.from ?? 'hand'])).toEqual([
+      ['run-y-0', 'hand'],
+      [correctionId('run-y', 3), 'hand'],
+      ['run-y-4', correctionId('run-y', 3)],
+      ['run-y-5', correctionId('run-y', 3)],
+    ]);
+    const hand = marks[1]!;
+    expect(hand.followed).toBeUndefined();
+    expect(hand.t).toBeCloseTo(1.08, 12);
+    expect(hand.points).toEqual([{ x: 301, y: 180 }, { x: 329, y: 180 }]);
     for (const [i, m] of marks.entries()) expect(validateMark(m, `marks[${i}]`, 640, 360)).toEqual(m);
   });
 });
